@@ -1,0 +1,65 @@
+/* cli.h - shared pieces of the synodic command-line front end.  The front
+ * end only parses arguments, calls libsynodic and prints; all physics
+ * lives in the library. */
+#ifndef SYNODIC_CLI_H
+#define SYNODIC_CLI_H
+
+#include <jansson.h>
+#include <stdio.h>
+
+#include "synodic.h"
+
+/* Exit codes (documented in synodic(1)). */
+enum {
+    CLI_EXIT_OK = 0,
+    CLI_EXIT_INTERNAL = 1, /* unexpected failure inside synodic          */
+    CLI_EXIT_USAGE = 2,    /* unknown command/option, missing argument    */
+    CLI_EXIT_INPUT = 3,    /* bad value: date, body, number, file content */
+    CLI_EXIT_NOSOL = 4,    /* the problem has no solution                 */
+    CLI_EXIT_IO = 5,       /* a file could not be read or written         */
+    CLI_EXIT_SIGNAL = 6    /* interrupted; no output was left half-written */
+};
+
+typedef struct {
+    const char *name;
+    const char *summary;
+    int (*run)(int argc, char **argv);
+    void (*usage)(FILE *out);
+} cli_command;
+
+int cmd_bodies(int argc, char **argv);
+int cmd_state(int argc, char **argv);
+int cmd_lambert(int argc, char **argv);
+int cmd_transfer(int argc, char **argv);
+void usage_bodies(FILE *out);
+void usage_state(FILE *out);
+void usage_lambert(FILE *out);
+void usage_transfer(FILE *out);
+
+/* Print "synodic: error: ..." on stderr and return code. */
+int cli_error(int code, const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 2, 3)))
+#endif
+    ;
+/* Exit code for a library status. */
+int cli_exit_for(sy_status st);
+/* Report an unknown option / missing argument the way every command does. */
+int cli_bad_option(const char *cmd, int optopt_char, const char *arg);
+
+/* Number parsing with full consumption; errors name the option. */
+int cli_parse_double(const char *what, const char *text, double *out);
+int cli_parse_int(const char *what, const char *text, int lo, int hi, int *out);
+int cli_parse_vec3(const char *what, const char *text, double v[3]);
+int cli_parse_date(const char *what, const char *text, double *jd);
+int cli_parse_branch(const char *text, sy_branch *b);
+
+/* Catalogue with the built-ins and, when path != NULL, a bodies file. */
+int cli_catalog(const char *bodies_path, sy_catalog **cat);
+int cli_find_body(const sy_catalog *cat, const char *name, const sy_body **b);
+
+json_t *cli_json_vec3(const double v[3]);
+/* Print JSON on stdout followed by a newline; steals the reference. */
+int cli_print_json(json_t *root);
+
+#endif
