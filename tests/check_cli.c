@@ -189,7 +189,7 @@ END_TEST
 START_TEST(test_tables_and_help)
 {
     const char *cmds[] = {"bodies --help", "state --help", "lambert --help",
-                          "transfer --help", "--help", "help transfer"};
+                          "transfer --help", "chart --help", "--help", "help transfer"};
     for (size_t i = 0; i < sizeof cmds / sizeof cmds[0]; i++) {
         run_result r = run(cmds[i]);
         ck_assert_msg(r.status == 0, "%s: exit %d", cmds[i], r.status);
@@ -268,6 +268,114 @@ START_TEST(test_bad_inputs)
 }
 END_TEST
 
+static int same_file(const char *a, const char *b)
+{
+    char *x = slurp(a), *y = slurp(b);
+    int same = strlen(x) > 0 && strcmp(x, y) == 0;
+    free(x);
+    free(y);
+    return same;
+}
+
+static int exists(const char *path)
+{
+    return access(path, F_OK) == 0;
+}
+
+/* `synodic chart` on the Mars example: every output written, the optimum
+ * printed, and the same bytes for 1 and 2 threads (CSV, SVG, JSON). */
+START_TEST(test_chart_outputs)
+{
+    char dir[] = "/tmp/sy_chartXXXXXX";
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    char args[1024], p1[1200], p2[1200];
+    snprintf(args, sizeof args, "chart examples/tern-mars-2033.ini -o %s/t1 --threads 1 "
+             "--set departure.step_days=3 --set arrival.step_days=3", dir);
+    run_result r = run(args);
+    ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
+    ck_assert_ptr_nonnull(strstr(r.out, "minimum c3"));
+    ck_assert_ptr_nonnull(strstr(r.out, "wrote"));
+    ck_assert_ptr_nonnull(strstr(r.out, "Preliminary"));
+    run_free(&r);
+    snprintf(args, sizeof args, "chart examples/tern-mars-2033.ini -o %s/t2 --threads 2 "
+             "--set departure.step_days=3 --set arrival.step_days=3 --quiet", dir);
+    r = run(args);
+    ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
+    ck_assert_str_eq(r.out, "");
+    run_free(&r);
+    const char *ext[] = {"png", "svg", "pdf", "csv", "json"};
+    for (int k = 0; k < 5; k++) {
+        snprintf(p1, sizeof p1, "%s/t1/tern-mars-2033.%s", dir, ext[k]);
+        snprintf(p2, sizeof p2, "%s/t2/tern-mars-2033.%s", dir, ext[k]);
+        ck_assert_msg(exists(p1) && exists(p2), "missing %s", p1);
+        if (k == 1 || k == 3 || k == 4)
+            ck_assert_msg(same_file(p1, p2), "%s differs between thread counts", ext[k]);
+    }
+    snprintf(p1, sizeof p1, "%s/t1/tern-mars-2033.json", dir);
+    char *text = slurp(p1);
+    json_t *j = parse_json(text);
+    free(text);
+    json_t *opt = json_object_get(j, "optima");
+    ck_assert(json_is_array(opt) && json_array_size(opt) >= 2);
+    json_t *o0 = json_array_get(opt, 0);
+    expect_string(o0, "minimum_of", "c3_km2_s2");
+    expect_number(o0, "c3_km2_s2");
+    expect_number(o0, "departure_jd");
+    /* the study's limits hold at the reported optimum */
+    ck_assert_double_le(json_number_value(json_object_get(o0, "c3_km2_s2")), 20.0);
+    ck_assert_double_le(fabs(json_number_value(json_object_get(o0, "dla_deg"))), 28.5);
+    ck_assert_double_le(json_number_value(json_object_get(o0, "vinf_arr_km_s")), 4.5);
+    ck_assert_ptr_nonnull(json_object_get(json_object_get(j, "model"), "caution"));
+    json_decref(j);
+    snprintf(args, sizeof args, "rm -rf '%s'", dir);
+    ck_assert_int_eq(system(args), 0);
+}
+END_TEST
+
+/* Study-file and output errors through the command line. */
+START_TEST(test_chart_errors)
+{
+    char dir[] = "/tmp/sy_charterrXXXXXX";
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    char args[1024], path[1200];
+    snprintf(path, sizeof path, "%s/bad.ini", dir);
+    FILE *f = fopen(path, "w");
+    fputs("[study]\ntitle = x\n[transfer]\norigin = earth\ntarget = mars\n"
+          "[departure]\nstart = 2033-02-15\nend = 2033-03-15\nstep_days = 2\n"
+          "[arrival]\nstart = 2033-08-01\nend = 2033-12-01\nstep_days = 2\n"
+          "[limits]\nc3max = 20\n", f);
+    fclose(f);
+    static const struct { const char *fmt, *needle; int code; } cases[] = {
+        {"chart %s/bad.ini -o %s", "c3max", 3},
+        {"chart %s/missing.ini -o %s", "missing.ini", 5},
+        {"chart examples/tern-mars-2033.ini -o %s/no/such/dir", "no/such", 5},
+        {"chart examples/tern-mars-2033.ini --set transfer.target=vulcan -o %s", "vulcan", 3},
+        {"chart examples/tern-mars-2033.ini --set limits.c3_max_km2_s2=abc -o %s", "--set", 3},
+        {"chart examples/tern-mars-2033.ini --format png,gif -o %s", "gif", 3},
+        {"chart examples/tern-mars-2033.ini --threads 0 -o %s", "--threads", 3},
+        {"chart -o %s", "STUDY", 2},
+    };
+    for (size_t k = 0; k < sizeof cases / sizeof cases[0]; k++) {
+        if (strstr(cases[k].fmt, "%s/bad") || strstr(cases[k].fmt, "%s/missing"))
+            snprintf(args, sizeof args, cases[k].fmt, dir, dir);
+        else
+            snprintf(args, sizeof args, cases[k].fmt, dir);
+        run_result r = run(args);
+        ck_assert_msg(r.status == cases[k].code, "'%s': exit %d (want %d): %s", args, r.status,
+                      cases[k].code, r.err);
+        ck_assert_msg(r.out[0] == '\0', "'%s': stdout %s", args, r.out);
+        ck_assert_msg(strncmp(r.err, "synodic: error: ", 16) == 0, "'%s': %s", args, r.err);
+        ck_assert_msg(strstr(r.err, cases[k].needle), "'%s': '%s' lacks '%s'", args, r.err, cases[k].needle);
+        run_free(&r);
+    }
+    /* nothing but the bad study file was left in the directory */
+    snprintf(args, sizeof args, "test \"$(ls -A '%s')\" = bad.ini", dir);
+    ck_assert_int_eq(system(args), 0);
+    snprintf(args, sizeof args, "rm -rf '%s'", dir);
+    ck_assert_int_eq(system(args), 0);
+}
+END_TEST
+
 int main(void)
 {
     Suite *s = suite_create("command line");
@@ -278,6 +386,8 @@ int main(void)
     tcase_add_test(tc, test_transfer_json);
     tcase_add_test(tc, test_tables_and_help);
     tcase_add_test(tc, test_bad_inputs);
+    tcase_add_test(tc, test_chart_outputs);
+    tcase_add_test(tc, test_chart_errors);
     suite_add_tcase(s, tc);
     return tu_run(s);
 }

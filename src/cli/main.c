@@ -10,6 +10,7 @@ static const cli_command commands[] = {
     {"state", "heliocentric position and velocity of a body", cmd_state, usage_state},
     {"lambert", "solve Lambert's problem between two position vectors", cmd_lambert, usage_lambert},
     {"transfer", "launch and arrival figures of one transfer", cmd_transfer, usage_transfer},
+    {"chart", "porkchop chart and data of a study file", cmd_chart, usage_chart},
 };
 #define NCOMMANDS (sizeof commands / sizeof commands[0])
 

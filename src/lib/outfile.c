@@ -8,6 +8,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 /* Registry of open temporaries so that a signal handler can remove them.
@@ -40,6 +41,13 @@ int sy_outfile_open(sy_outfile *of, const char *path, void *errp)
         int e = errno;
         of->tmp[0] = '\0';
         return sy_fail(err, SY_ERR_IO, "cannot create %s: %s (check that the directory exists and is writable)", path, strerror(e));
+    }
+    /* mkstemp creates 0600; a finished chart is an ordinary file, so give
+     * it the permissions the user's umask asks for. */
+    mode_t mask = umask(0);
+    umask(mask);
+    if (fchmod(fd, 0666 & ~mask) != 0) {
+        /* not fatal: the file is still the user's own */
     }
     of->fp = fdopen(fd, "wb");
     if (!of->fp) {

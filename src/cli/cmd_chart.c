@@ -1,0 +1,224 @@
+/* cmd_chart.c - `synodic chart`: a study's porkchop chart and its data. */
+#include "config.h"
+#include "cli.h"
+#include "synodic/figure.h"
+#include "synodic/grid.h"
+#include "synodic/io.h"
+#include "synodic/report.h"
+#include "synodic/study.h"
+
+#include <errno.h>
+#include <getopt.h>
+#include <math.h>
+#include <signal.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+void usage_chart(FILE *out)
+{
+    fprintf(out,
+            "usage: synodic chart STUDY [-o DIR] [--set SECTION.KEY=VALUE ...]\n"
+            "                     [--format LIST] [--threads N] [--quiet]\n\n"
+            "Sweep the study's departure x arrival grid, find the optima and write\n"
+            "the porkchop chart (PNG, SVG, PDF) with its data (CSV, JSON).\n\n"
+            "  -o, --output DIR   write into DIR (default: the study's [output] directory)\n"
+            "  --set S.K=V        override key K of section [S] (repeatable)\n"
+            "  --format LIST      comma list of png, svg, pdf, csv, json\n"
+            "  --threads N        worker threads (default: all cores)\n"
+            "  --quiet            no progress bar, no summary; only errors\n"
+            "  --help             show this help\n\n"
+            "Study files are described in synodic(1); see examples/ for three.\n");
+}
+
+static void on_signal(int sig)
+{
+    /* Remove every temporary output; finished outputs stay intact. */
+    sy_outfile_abort_all();
+    static const char msg[] = "synodic: error: interrupted; no output was left half-written\n";
+    ssize_t w = write(STDERR_FILENO, msg, sizeof msg - 1);
+    (void)w;
+    (void)sig;
+    _exit(CLI_EXIT_SIGNAL);
+}
+
+static int progress_bar(double frac, void *user)
+{
+    int *last = user;
+    int pct = (int)(frac * 100.0);
+    if (pct == *last) return 0;
+    *last = pct;
+    char bar[41];
+    int n = pct * 40 / 100;
+    for (int k = 0; k < 40; k++) bar[k] = k < n ? '#' : '.';
+    bar[40] = '\0';
+    fprintf(stderr, "\r  grid [%s] %3d%%", bar, pct);
+    if (pct >= 100) fputc('\n', stderr);
+    return 0;
+}
+
+static int parse_formats(const char *text, unsigned *out)
+{
+    unsigned f = 0;
+    char buf[256];
+    snprintf(buf, sizeof buf, "%s", text);
+    for (char *tok = strtok(buf, ", "); tok; tok = strtok(NULL, ", ")) {
+        if (strcmp(tok, "png") == 0) f |= SY_FMT_PNG;
+        else if (strcmp(tok, "svg") == 0) f |= SY_FMT_SVG;
+        else if (strcmp(tok, "pdf") == 0) f |= SY_FMT_PDF;
+        else if (strcmp(tok, "csv") == 0) f |= SY_FMT_CSV;
+        else if (strcmp(tok, "json") == 0) f |= SY_FMT_JSON;
+        else return cli_error(CLI_EXIT_INPUT, "--format: unknown format '%s'; use a comma list of png, svg, pdf, csv, json", tok);
+    }
+    if (!f) return cli_error(CLI_EXIT_INPUT, "--format: no format given; use a comma list of png, svg, pdf, csv, json");
+    *out = f;
+    return 0;
+}
+
+/* The output directory must exist or be creatable inside an existing one. */
+static int ensure_dir(const char *dir)
+{
+    struct stat sb;
+    if (stat(dir, &sb) == 0) {
+        if (!S_ISDIR(sb.st_mode))
+            return cli_error(CLI_EXIT_IO, "output directory %s is not a directory; choose another with -o", dir);
+        if (access(dir, W_OK) != 0)
+            return cli_error(CLI_EXIT_IO, "output directory %s is not writable; choose another with -o", dir);
+        return 0;
+    }
+    if (mkdir(dir, 0777) != 0)
+        return cli_error(CLI_EXIT_IO, "cannot create output directory %s: %s; create its parent or choose another with -o", dir, strerror(errno));
+    return 0;
+}
+
+static void print_optimum(const sy_optimum *o)
+{
+    char name[32];
+    snprintf(name, sizeof name, "%s%s", sy_field_name(o->field),
+             o->type == 1 ? " (I)" : o->type == 2 ? " (II)" : "");
+    if (!o->found) {
+        printf("  minimum %-10s none within the constraints\n", name);
+        return;
+    }
+    const sy_transfer *t = &o->transfer;
+    char d1[40], d2[40];
+    sy_date_format(o->jd_dep, 0, d1, sizeof d1);
+    sy_date_format(o->jd_arr, 0, d2, sizeof d2);
+    printf("  minimum %-10s %9.3f   depart %s (JD %.2f)  arrive %s (JD %.2f)\n",
+           name, o->value, d1, o->jd_dep, d2, o->jd_arr);
+    printf("      C3 %.3f km2/s2, DLA %.2f deg, RLA %.2f deg, arrival v-inf %.3f km/s, "
+           "flight %.2f d, Type %s",
+           t->c3_km2_s2, t->dla_deg, t->rla_deg, t->vinf_arr_km_s, t->tof_days,
+           t->type == 1 ? "I" : "II");
+    if (isfinite(t->dv_total_km_s)) printf(", total dv %.3f km/s", t->dv_total_km_s);
+    printf("\n");
+}
+
+int cmd_chart(int argc, char **argv)
+{
+    static const struct option longopts[] = {
+        {"output", required_argument, NULL, 'o'},
+        {"set", required_argument, NULL, 's'},
+        {"format", required_argument, NULL, 'f'},
+        {"threads", required_argument, NULL, 't'},
+        {"quiet", no_argument, NULL, 'q'},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0}};
+    const char *outdir = NULL;
+    const char **sets = calloc((size_t)argc + 1, sizeof *sets);
+    size_t nsets = 0;
+    unsigned formats = 0;
+    int threads = 0, quiet = 0, c, rc = 0;
+    if (!sets) return cli_error(CLI_EXIT_INTERNAL, "out of memory");
+    opterr = 0;
+    while ((c = getopt_long(argc, argv, ":o:", longopts, NULL)) != -1) {
+        switch (c) {
+        case 'o': outdir = optarg; break;
+        case 's': sets[nsets++] = optarg; break;
+        case 'f': rc = parse_formats(optarg, &formats); break;
+        case 't': rc = cli_parse_int("--threads", optarg, 1, 1024, &threads); break;
+        case 'q': quiet = 1; break;
+        case 'h': usage_chart(stdout); free(sets); return CLI_EXIT_OK;
+        default: rc = cli_bad_option("chart", c, argv[optind - 1]); break;
+        }
+        if (rc) { free(sets); return rc; }
+    }
+    if (argc - optind != 1) {
+        free(sets);
+        return cli_error(CLI_EXIT_USAGE, "chart: expected one STUDY file, got %d argument(s); see 'synodic chart --help'", argc - optind);
+    }
+    sy_study *st = calloc(1, sizeof *st);
+    if (!st) { free(sets); return cli_error(CLI_EXIT_INTERNAL, "out of memory"); }
+    sy_error err;
+    sy_status s = sy_study_load(argv[optind], sets, nsets, st, &err);
+    free(sets);
+    if (s != SY_OK) { free(st); return cli_error(cli_exit_for(s), "%s", err.msg); }
+    if (formats) st->formats = formats;
+    if (outdir) snprintf(st->out_dir, sizeof st->out_dir, "%s", outdir);
+
+    sy_catalog *cat = NULL;
+    sy_grid *g = NULL;
+    const sy_body *from, *to;
+    if ((rc = cli_catalog(st->bodies_file[0] ? st->bodies_file : NULL, &cat))) goto out;
+    if ((rc = cli_find_body(cat, st->origin, &from))) goto out;
+    if ((rc = cli_find_body(cat, st->target, &to))) goto out;
+    if (from == to) { rc = cli_error(CLI_EXIT_INPUT, "%s: origin and target are both %s; choose two different bodies", st->path, from->name); goto out; }
+    sy_grid_spec spec;
+    if ((s = sy_grid_spec_from_study(st, from, to, &spec, &err)) != SY_OK) {
+        rc = cli_error(cli_exit_for(s), "%s: %s", st->path, err.msg);
+        goto out;
+    }
+    spec.threads = threads;
+    if ((rc = ensure_dir(st->out_dir))) goto out;
+
+    signal(SIGINT, on_signal);
+    signal(SIGTERM, on_signal);
+    int last = -1;
+    int show = !quiet && isatty(STDERR_FILENO) && spec.nx * spec.ny >= 200000;
+    s = sy_grid_compute(&spec, show ? progress_bar : NULL, &last, &g, &err);
+    if (s != SY_OK) { rc = cli_error(cli_exit_for(s), "%s", err.msg); goto out; }
+
+    /* Optima: minimum C3 of each transfer type (both are flown), then the
+     * minimum arrival v-infinity and total delta-v of either type. */
+    sy_optimum opt[4];
+    size_t nopt = 0;
+    const struct { sy_field f; int type; } want[4] = {
+        {SY_F_C3, 1}, {SY_F_C3, 2}, {SY_F_VINF_ARR, 0}, {SY_F_DV_TOTAL, 0}};
+    for (int k = 0; k < 4; k++) {
+        if (!g->field[want[k].f]) continue;
+        if ((s = sy_grid_optimum_of_type(g, st, want[k].f, want[k].type, &opt[nopt])) != SY_OK) {
+            rc = cli_error(cli_exit_for(s), "refining the minimum of %s failed: %s", sy_field_name(want[k].f), sy_status_str(s));
+            goto out;
+        }
+        nopt++;
+    }
+
+    static const struct { unsigned bit; const char *ext; } kinds[] = {
+        {SY_FMT_PNG, "png"}, {SY_FMT_SVG, "svg"}, {SY_FMT_PDF, "pdf"},
+        {SY_FMT_CSV, "csv"}, {SY_FMT_JSON, "json"}};
+    char written[5][4400];
+    int nw = 0;
+    for (size_t k = 0; k < 5; k++) {
+        if (!(st->formats & kinds[k].bit)) continue;
+        char path[4400];
+        snprintf(path, sizeof path, "%s/%s.%s", st->out_dir, st->basename, kinds[k].ext);
+        if (kinds[k].bit == SY_FMT_CSV) s = sy_report_csv(g, st, path, &err);
+        else if (kinds[k].bit == SY_FMT_JSON) s = sy_report_json(g, st, opt, nopt, path, &err);
+        else s = sy_figure_write(g, st, opt, nopt, path, &err);
+        if (s != SY_OK) { rc = cli_error(cli_exit_for(s), "%s", err.msg); goto out; }
+        snprintf(written[nw++], sizeof written[0], "%s", path);
+    }
+    if (!quiet) {
+        printf("%s\n  %s -> %s, %zu x %zu cells\n", st->title, from->name, to->name, g->nx, g->ny);
+        for (size_t k = 0; k < nopt; k++) print_optimum(&opt[k]);
+        for (int k = 0; k < nw; k++) printf("  wrote %s\n", written[k]);
+        printf("  %s\n", SY_CAUTION);
+        if (fflush(stdout) != 0) rc = cli_error(CLI_EXIT_IO, "cannot write to standard output");
+    }
+out:
+    sy_grid_free(g);
+    sy_catalog_free(cat);
+    free(st);
+    return rc;
+}

@@ -1,0 +1,405 @@
+/* figure.c - from a computed grid and its study to a chart description:
+ * levels, iso-lines, constraint regions, Type I/II boundary, optima
+ * markers, titles and footer.  See synodic/figure.h. */
+#include "config.h"
+#include "synodic.h"
+#include "synodic/contour.h"
+#include "synodic/figure.h"
+#include "synodic/report.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+/* Half-width (deg) of the band around a 180-degree transfer angle where
+ * unresolvable iso-lines are left out (see ridge_mask()). */
+#define SY_FIGURE_RIDGE_DEG 12.0f
+
+/* Near a transfer angle of 180 deg every field climbs a narrow ridge (the
+ * transfer plane swings to high inclination).  Where more than two levels
+ * cross one grid step the grid cannot resolve the iso-lines: they bunch
+ * into a solid band that says nothing but "avoid" and buries the labels.
+ * Such nodes inside the ridge band become gaps for this field's lines. */
+static void ridge_mask(const sy_grid *g, const float *z, const double *lv,
+                       size_t nlv, const unsigned char *base,
+                       unsigned char *out)
+{
+    const size_t nx = g->nx, ny = g->ny;
+    const float *ang = g->field[SY_F_ANGLE];
+    memcpy(out, base, nx * ny);
+    if (!ang || nlv < 2) return;
+    double gap = (lv[nlv - 1] - lv[0]) / (double)(nlv - 1);
+    for (size_t j = 0; j < ny; j++)
+        for (size_t i = 0; i < nx; i++) {
+            size_t k = j * nx + i;
+            if (out[k] || !(fabsf(ang[k] - 180.0f) < SY_FIGURE_RIDGE_DEG)) continue;
+            double d = 0;
+            const size_t nb[4] = {i > 0 ? k - 1 : k, i + 1 < nx ? k + 1 : k,
+                                  j > 0 ? k - nx : k, j + 1 < ny ? k + nx : k};
+            for (int q = 0; q < 4; q++)
+                if (!base[nb[q]]) d = fmax(d, fabs((double)z[nb[q]] - (double)z[k]));
+            if (d > 2.0 * gap) out[k] = 1;
+        }
+}
+
+static int cmp_float(const void *a, const void *b)
+{
+    float x = *(const float *)a, y = *(const float *)b;
+    return (x > y) - (x < y);
+}
+
+/* The study's limit on a field, NAN when it has none. */
+static double field_limit(const sy_study *st, sy_field f)
+{
+    switch (f) {
+    case SY_F_C3: return st->c3_max_km2_s2;
+    case SY_F_VINF_ARR: return st->vinf_arr_max_km_s;
+    default: return NAN;
+    }
+}
+
+size_t sy_figure_levels(const sy_grid *g, const sy_study *st,
+                        const sy_chart_field *cf, double *levels, size_t max)
+{
+    if (!cf->auto_levels) {
+        size_t n = cf->nlevels < max ? cf->nlevels : max;
+        memcpy(levels, cf->levels, n * sizeof *levels);
+        return n;
+    }
+    const float *z = g->field[cf->field];
+    if (!z) return 0;
+    size_t cells = g->nx * g->ny, n = 0;
+    float *v = malloc(cells * sizeof *v);
+    if (!v) return 0;
+    for (size_t k = 0; k < cells; k++)
+        if (g->status[k] == SY_CELL_OK && isfinite(z[k])) v[n++] = z[k];
+    if (n < 4) {
+        free(v);
+        return 0;
+    }
+    qsort(v, n, sizeof *v, cmp_float);
+    double zmin = v[0];
+    /* Porkchop fields rise steeply towards the 180-degree ridge and the
+     * window edges; an analyst contours the basin, not the walls.  Take
+     * the lower part of the distribution, or a bit beyond the limit. */
+    double zmax = v[(size_t)(0.40 * (double)(n - 1))];
+    double lim = field_limit(st, cf->field);
+    if (isfinite(lim) && lim > zmin) zmax = 1.5 * lim - 0.5 * zmin;
+    if (zmax > v[n - 1]) zmax = v[n - 1];
+    free(v);
+    if (!(zmax > zmin)) zmax = zmin + 1.0;
+    /* Start from the first nice level above the minimum so the innermost
+     * contour encloses the optimum. */
+    return sy_nice_levels(zmin, zmax, 10, levels, max);
+}
+
+static void fmt_value(double v, char *buf, size_t n)
+{
+    if (fabs(v) >= 100) snprintf(buf, n, "%.0f", v);
+    else if (fabs(v) >= 10) snprintf(buf, n, "%.1f", v);
+    else snprintf(buf, n, "%.2f", v);
+}
+
+static const char *field_unit(sy_field f)
+{
+    switch (f) {
+    case SY_F_C3: case SY_F_C3_ARR: return "km²/s²";
+    case SY_F_DLA: case SY_F_RLA: case SY_F_DAP: case SY_F_RAP: case SY_F_ANGLE: return "deg";
+    case SY_F_TOF: return "d";
+    case SY_F_MIN_SUN: return "AU";
+    default: return "km/s";
+    }
+}
+
+static const char *short_name(sy_field f)
+{
+    switch (f) {
+    case SY_F_C3: return "C3";
+    case SY_F_VINF_ARR: return "arrival v∞";
+    case SY_F_DV_TOTAL: return "total Δv";
+    default: return sy_field_name(f);
+    }
+}
+
+typedef struct {
+    sy_isoline_set *sets;
+    size_t nsets;
+} traced;
+
+static void traced_free(traced *t)
+{
+    for (size_t k = 0; k < t->nsets; k++) sy_isoline_set_free(&t->sets[k]);
+    free(t->sets);
+    t->sets = NULL;
+    t->nsets = 0;
+}
+
+static sy_status trace_levels(const float *z, const unsigned char *mask, size_t nx,
+                              size_t ny, const double *lv, size_t n, traced *out)
+{
+    out->sets = calloc(n ? n : 1, sizeof *out->sets);
+    out->nsets = 0;
+    if (!out->sets) return SY_ERR_NOMEM;
+    for (size_t k = 0; k < n; k++) {
+        int st = sy_contour_trace(z, mask, nx, ny, lv[k], &out->sets[k]);
+        if (st != SY_OK) {
+            traced_free(out);
+            return (sy_status)st;
+        }
+        out->nsets++;
+    }
+    return SY_OK;
+}
+
+sy_status sy_figure_write(const sy_grid *g, const sy_study *st,
+                          const sy_optimum *opt, size_t nopt,
+                          const char *path, sy_error *err)
+{
+    const size_t nx = g->nx, ny = g->ny, cells = nx * ny;
+    sy_status status = SY_OK;
+    unsigned char *nosol = malloc(cells);
+    unsigned char *regmask[4] = {NULL, NULL, NULL, NULL};
+    float *angle = NULL;
+    unsigned char *angle_mask = NULL;
+    traced tr[SY_MAX_CHART_FIELDS];
+    memset(tr, 0, sizeof tr);
+    traced boundary = {0};
+    double levels[SY_MAX_CHART_FIELDS][SY_MAX_LEVELS];
+    unsigned char *ridge = malloc(cells);
+    if (!nosol || !ridge) {
+        free(nosol);
+        free(ridge);
+        return sy_fail(err, SY_ERR_NOMEM, "out of memory");
+    }
+    size_t n_nosol = 0;
+    for (size_t k = 0; k < cells; k++) {
+        nosol[k] = g->status[k] != SY_CELL_OK;
+        n_nosol += nosol[k];
+        ridge[k] = nosol[k];
+    }
+
+    sy_chart ch;
+    sy_chart_init(&ch);
+    ch.yaxis = g->spec.y_is_tof ? SY_CHART_Y_TOF : SY_CHART_Y_ARRIVAL;
+    ch.nx = nx;
+    ch.ny = ny;
+    ch.x0_jd = g->spec.x0_jd;
+    ch.dx_days = g->spec.dx_days;
+    ch.y0 = g->spec.y0;
+    ch.dy = g->spec.dy_days;
+    ch.title = st->title;
+    ch.subtitle = st->subtitle[0] ? st->subtitle : NULL;
+    ch.xtitle = "Departure date (TDB)";
+    ch.ytitle = g->spec.y_is_tof ? "Time of flight (days)" : "Arrival date (TDB)";
+    if (n_nosol) {
+        ch.nosol_mask = nosol;
+        ch.nosol_legend = "No transfer solution";
+    }
+
+    /* Iso-lines of every charted field. */
+    sy_chart_isolines iso[SY_MAX_CHART_FIELDS];
+    char legends[SY_MAX_CHART_FIELDS][96];
+    size_t niso = 0;
+    for (size_t f = 0; f < st->nfields; f++) {
+        const sy_chart_field *cf = &st->fields[f];
+        const float *z = g->field[cf->field];
+        if (!z) continue;
+        size_t n = sy_figure_levels(g, st, cf, levels[f], SY_MAX_LEVELS);
+        ridge_mask(g, z, levels[f], n, nosol, ridge);
+        if ((status = trace_levels(z, ridge, nx, ny, levels[f], n, &tr[f])) != SY_OK) {
+            sy_fail(err, status, "contouring %s failed", sy_field_name(cf->field));
+            goto done;
+        }
+        snprintf(legends[f], sizeof legends[f], "%s", sy_field_label(cf->field));
+        iso[niso].role = niso == 0 ? SY_CHART_PRIMARY : niso == 1 ? SY_CHART_SECONDARY : SY_CHART_TERTIARY;
+        iso[niso].sets = tr[f].sets;
+        iso[niso].nsets = tr[f].nsets;
+        iso[niso].legend = legends[f];
+        iso[niso].label_every = 1;
+        niso++;
+    }
+    ch.isolines = iso;
+    ch.nisolines = niso;
+
+    /* Filled bands of the primary field. */
+    sy_chart_fill fill;
+    if (st->filled && st->nfields > 0 && g->field[st->fields[0].field] && tr[0].nsets >= 2) {
+        fill.z = g->field[st->fields[0].field];
+        fill.invalid = nosol;
+        fill.levels = levels[0];
+        fill.nlevels = tr[0].nsets;
+        fill.title = sy_field_label(st->fields[0].field);
+        ch.fill = &fill;
+    }
+
+    /* Time-of-flight iso-lines: the study's, or nice round values. */
+    double tofs[SY_MAX_LEVELS];
+    size_t ntof = 0;
+    sy_chart_tof_lines tl;
+    if (st->tof_lines_auto) {
+        const float *tof = g->field[SY_F_TOF];
+        double lo = INFINITY, hi = -INFINITY;
+        for (size_t k = 0; k < cells; k++)
+            if (g->status[k] == SY_CELL_OK) {
+                if (tof[k] < lo) lo = tof[k];
+                if (tof[k] > hi) hi = tof[k];
+            }
+        if (hi > lo && !g->spec.y_is_tof) ntof = sy_nice_levels(lo, hi, 6, tofs, SY_MAX_LEVELS);
+    } else {
+        ntof = st->ntof_lines;
+        memcpy(tofs, st->tof_lines_days, ntof * sizeof *tofs);
+    }
+    if (ntof) {
+        tl.tof_days = tofs;
+        tl.n = ntof;
+        tl.legend = "Time of flight (days)";
+        ch.tof = &tl;
+    }
+
+    /* Type I / II boundary: the 180-degree contour of the transfer angle.
+     * The angle wraps from 360 to 0 where the arrival point passes the
+     * departure direction; nodes near the wrap are masked so that jump
+     * is not mistaken for a crossing of 180 deg. */
+    sy_chart_boundary bd;
+    if (st->show_types && g->field[SY_F_ANGLE]) {
+        angle = g->field[SY_F_ANGLE];
+        angle_mask = malloc(cells);
+        if (!angle_mask) { status = sy_fail(err, SY_ERR_NOMEM, "out of memory"); goto done; }
+        for (size_t k = 0; k < cells; k++)
+            angle_mask[k] = nosol[k] || !(angle[k] > 60.0f && angle[k] < 300.0f);
+        double l180 = 180.0;
+        if ((status = trace_levels(angle, angle_mask, nx, ny, &l180, 1, &boundary)) != SY_OK) {
+            sy_fail(err, status, "tracing the Type I/II boundary failed");
+            goto done;
+        }
+        if (boundary.sets[0].nlines > 0) {
+            bd.lines = boundary.sets[0].lines;
+            bd.nlines = boundary.sets[0].nlines;
+            /* Longer flights sweep more angle: Type II lies towards larger y. */
+            bd.low_text = "Type I";
+            bd.high_text = "Type II";
+            bd.legend = "Type I / Type II boundary";
+            ch.boundary = &bd;
+        }
+    }
+
+    /* Constraint regions. */
+    sy_chart_region regions[4];
+    char reglabel[4][96];
+    size_t nreg = 0;
+    const float *F_c3 = g->field[SY_F_C3], *F_v = g->field[SY_F_VINF_ARR];
+    const float *F_dla = g->field[SY_F_DLA], *F_tof = g->field[SY_F_TOF];
+    for (int r = 0; r < 4; r++) {
+        double lim = r == 0 ? st->c3_max_km2_s2 : r == 1 ? st->vinf_arr_max_km_s : r == 2 ? st->dla_max_deg : NAN;
+        int tof_lim = r == 3 && (isfinite(st->tof_min_days) || isfinite(st->tof_max_days));
+        if (!isfinite(lim) && !tof_lim) continue;
+        unsigned char *m = calloc(cells, 1);
+        if (!m) { status = sy_fail(err, SY_ERR_NOMEM, "out of memory"); goto done; }
+        regmask[nreg] = m;
+        size_t hits = 0;
+        for (size_t k = 0; k < cells; k++) {
+            if (g->status[k] != SY_CELL_OK) continue;
+            int bad = 0;
+            if (r == 0) bad = !(F_c3[k] <= lim);
+            if (r == 1) bad = !(F_v[k] <= lim);
+            if (r == 2) bad = !(fabsf(F_dla[k]) <= lim);
+            if (r == 3) bad = (isfinite(st->tof_min_days) && F_tof[k] < st->tof_min_days) ||
+                              (isfinite(st->tof_max_days) && F_tof[k] > st->tof_max_days);
+            m[k] = (unsigned char)bad;
+            hits += (size_t)bad;
+        }
+        char a[32], b[32];
+        if (r == 0) snprintf(reglabel[nreg], sizeof reglabel[nreg], "C3 > %g km²/s²", lim);
+        if (r == 1) snprintf(reglabel[nreg], sizeof reglabel[nreg], "Arrival v∞ > %g km/s", lim);
+        if (r == 2) snprintf(reglabel[nreg], sizeof reglabel[nreg], "|DLA| > %g°", lim);
+        if (r == 3) {
+            snprintf(a, sizeof a, "%g", st->tof_min_days);
+            snprintf(b, sizeof b, "%g", st->tof_max_days);
+            if (isfinite(st->tof_min_days) && isfinite(st->tof_max_days))
+                snprintf(reglabel[nreg], sizeof reglabel[nreg], "Flight time outside %s–%s d", a, b);
+            else if (isfinite(st->tof_min_days))
+                snprintf(reglabel[nreg], sizeof reglabel[nreg], "Flight time < %s d", a);
+            else
+                snprintf(reglabel[nreg], sizeof reglabel[nreg], "Flight time > %s d", b);
+        }
+        if (hits == 0) { free(m); regmask[nreg] = NULL; continue; }
+        regions[nreg].mask = m;
+        regions[nreg].legend = reglabel[nreg];
+        nreg++;
+    }
+    ch.regions = regions;
+    ch.nregions = nreg;
+
+    /* Optima markers. */
+    sy_chart_marker marks[8];
+    char mlabel[8][160];
+    size_t nm = 0;
+    for (size_t k = 0; k < nopt && nm < 8; k++) {
+        if (!opt[k].found) continue;
+        char v[32], d1[40], d2[40];
+        fmt_value(opt[k].value, v, sizeof v);
+        sy_date_format(opt[k].jd_dep, 0, d1, sizeof d1);
+        sy_date_format(opt[k].jd_arr, 0, d2, sizeof d2);
+        const char *ty = opt[k].type == 1 ? " (Type I)" : opt[k].type == 2 ? " (Type II)" : "";
+        if (st->width_in < 5.0)
+            /* a report column has no room for dates: value and type only
+             * (the dates are in the JSON summary and the printed table) */
+            snprintf(mlabel[nm], sizeof mlabel[nm], "%s %s%s", short_name(opt[k].field), v,
+                     opt[k].type == 1 ? " I" : opt[k].type == 2 ? " II" : "");
+        else
+            snprintf(mlabel[nm], sizeof mlabel[nm], "min %s%s %s %s\n%s → %s",
+                     short_name(opt[k].field), ty, v, field_unit(opt[k].field), d1, d2);
+        marks[nm].x_jd = opt[k].jd_dep;
+        marks[nm].y = g->spec.y_is_tof ? opt[k].jd_arr - opt[k].jd_dep : opt[k].jd_arr;
+        marks[nm].symbol = opt[k].field == SY_F_C3 ? SY_CHART_MARK_CIRCLE
+                           : opt[k].field == SY_F_VINF_ARR ? SY_CHART_MARK_SQUARE
+                                                           : SY_CHART_MARK_DIAMOND;
+        marks[nm].label = mlabel[nm];
+        marks[nm].legend = NULL;
+        nm++;
+    }
+    ch.markers = marks;
+    ch.nmarkers = nm;
+
+    /* Footer: model, caution, program and grid. */
+    char f1[256], f3[512], d0[40], d1[40];
+    snprintf(f1, sizeof f1, "%s.", SY_MODEL_TEXT);
+    sy_date_format(g->spec.x0_jd, 0, d0, sizeof d0);
+    sy_date_format(sy_grid_x_jd(g, (double)(nx - 1)), 0, d1, sizeof d1);
+    snprintf(f3, sizeof f3, "synodic %s · %s → %s · grid %zu × %zu, %g d × %g d · %d rev%s",
+             sy_version(), g->spec.from->name, g->spec.to->name, nx, ny,
+             g->spec.dx_days, g->spec.dy_days, g->spec.revs,
+             g->spec.revs ? (g->spec.branch == SY_BRANCH_LEFT ? ", left branch" : ", right branch") : "");
+    const char *footer[3] = {f1, SY_CAUTION, f3};
+    ch.footer = footer;
+    ch.nfooter = 3;
+
+    sy_chart_page page;
+    sy_chart_page_init(&page);
+    page.width_in = st->width_in;
+    page.height_in = st->height_in;
+    page.dpi = st->dpi;
+    page.format = SY_CHART_FMT_AUTO;
+    char software[64], comment[6144];
+    snprintf(software, sizeof software, "synodic %s", sy_version());
+    snprintf(comment, sizeof comment,
+             "study=%s; %s->%s; departure %s..%s step %g d; %s %g..%g step %g; revs=%d; %s",
+             st->path, g->spec.from->name, g->spec.to->name, d0, d1, g->spec.dx_days,
+             g->spec.y_is_tof ? "tof_days" : "arrival_jd", g->spec.y0,
+             sy_grid_y(g, (double)(ny - 1)), g->spec.dy_days, g->spec.revs, SY_CAUTION);
+    sy_chart_text text[] = {{"Title", st->title}, {"Software", software},
+                            {"Source", SY_MODEL_TEXT}, {"Comment", comment}};
+    page.text = text;
+    page.ntext = sizeof text / sizeof text[0];
+    status = sy_chart_write(&ch, &page, path, err);
+
+done:
+    for (size_t f = 0; f < SY_MAX_CHART_FIELDS; f++) traced_free(&tr[f]);
+    traced_free(&boundary);
+    for (int r = 0; r < 4; r++) free(regmask[r]);
+    free(angle_mask);
+    free(nosol);
+    free(ridge);
+    return status;
+}

@@ -1,0 +1,349 @@
+/* grid.c - the porkchop grid engine.
+ *
+ * Work is O(N + M) ephemeris evaluations plus one Lambert solve per cell:
+ * the departure body is tabulated at each departure epoch and the target
+ * at each distinct arrival epoch.  On a time-of-flight axis the arrival
+ * epochs x0 + i dx + y0 + j dy fall on one lattice whenever one step is an
+ * integer multiple of the other (the usual case: both in whole days), so
+ * they are tabulated once too; otherwise each cell evaluates its own
+ * arrival state (documented fallback).
+ *
+ * Cells are independent and computed with OpenMP; each cell's arithmetic
+ * does not depend on which thread runs it, so the fields are identical
+ * bit for bit for any thread count.  Rows are processed in blocks so that
+ * progress can be reported and the sweep cancelled between blocks.
+ */
+#include "config.h"
+#include "synodic.h"
+#include "synodic/grid.h"
+
+#include <math.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+#include <unistd.h>
+#ifdef _OPENMP
+#include <omp.h>
+#endif
+
+static double now_s(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return ts.tv_sec + 1e-9 * ts.tv_nsec;
+}
+
+static size_t count_steps(double start, double end, double step)
+{
+    return (size_t)floor((end - start) / step + 1e-9) + 1;
+}
+
+sy_status sy_grid_spec_from_study(const sy_study *st, const sy_body *from,
+                                  const sy_body *to, sy_grid_spec *spec,
+                                  sy_error *err)
+{
+    memset(spec, 0, sizeof *spec);
+    if (!from || !to) return sy_fail(err, SY_ERR_ARG, "missing body");
+    spec->from = from;
+    spec->to = to;
+    spec->x0_jd = st->dep_start_jd;
+    spec->dx_days = st->dep_step_days;
+    spec->nx = count_steps(st->dep_start_jd, st->dep_end_jd, st->dep_step_days);
+    spec->y_is_tof = st->y_is_tof;
+    if (st->y_is_tof) {
+        spec->y0 = st->tof_start_days;
+        spec->dy_days = st->tof_step_days;
+        spec->ny = count_steps(st->tof_start_days, st->tof_end_days, st->tof_step_days);
+    } else {
+        spec->y0 = st->arr_start_jd;
+        spec->dy_days = st->arr_step_days;
+        spec->ny = count_steps(st->arr_start_jd, st->arr_end_jd, st->arr_step_days);
+    }
+    spec->revs = st->revs;
+    spec->branch = st->branch;
+    spec->opts = st->orbits;
+    spec->threads = 0;
+    if (spec->nx < 2 || spec->ny < 2)
+        return sy_fail(err, SY_ERR_ARG, "the grid has %zu x %zu nodes; a chart needs at least 2 x 2 (widen the windows or shorten step_days)", spec->nx, spec->ny);
+    return SY_OK;
+}
+
+/* Arrival lattice on a time-of-flight axis: arrival(i, j) = base + (a i +
+ * b j) step.  Returns 0 when the steps are incommensurate. */
+static int tof_lattice(const sy_grid_spec *s, long *a, long *b, double *step,
+                       size_t *n)
+{
+    double r = s->dy_days / s->dx_days;
+    double kr = nearbyint(r), km = nearbyint(1.0 / r);
+    if (kr >= 1 && fabs(r - kr) < 1e-9 * kr) {
+        *a = 1; *b = (long)kr; *step = s->dx_days;
+    } else if (km >= 1 && fabs(1.0 / r - km) < 1e-9 * km) {
+        *a = (long)km; *b = 1; *step = s->dy_days;
+    } else {
+        return 0;
+    }
+    *n = (size_t)(*a) * (s->nx - 1) + (size_t)(*b) * (s->ny - 1) + 1;
+    return 1;
+}
+
+static size_t n_arrival_states(const sy_grid_spec *s)
+{
+    if (!s->y_is_tof) return s->ny;
+    long a, b;
+    double step;
+    size_t n;
+    return tof_lattice(s, &a, &b, &step, &n) ? n : 0;
+}
+
+size_t sy_grid_bytes(const sy_grid_spec *s)
+{
+    if (s->nx == 0 || s->ny == 0) return 0;
+    if (s->nx > SIZE_MAX / s->ny) return SIZE_MAX;
+    size_t cells = s->nx * s->ny;
+    size_t per_cell = SY_NFIELDS * sizeof(float) + 2;
+    if (cells > SIZE_MAX / per_cell) return SIZE_MAX;
+    size_t states = (s->nx + n_arrival_states(s)) * (6 * sizeof(double) + 1);
+    return cells * per_cell + states;
+}
+
+/* Memory this process may use: MemAvailable, else physical memory. */
+static size_t memory_available(void)
+{
+    FILE *f = fopen("/proc/meminfo", "r");
+    if (f) {
+        char line[256];
+        unsigned long long kb;
+        while (fgets(line, sizeof line, f)) {
+            if (sscanf(line, "MemAvailable: %llu kB", &kb) == 1) {
+                fclose(f);
+                return (size_t)(kb * 1024ULL);
+            }
+        }
+        fclose(f);
+    }
+    long pages = sysconf(_SC_PHYS_PAGES), psz = sysconf(_SC_PAGESIZE);
+    if (pages > 0 && psz > 0) return (size_t)pages * (size_t)psz;
+    return (size_t)1 << 30;
+}
+
+static int field_available(const sy_grid_spec *s, sy_field f)
+{
+    const sy_transfer_opts *o = &s->opts;
+    int from_ok = s->from->gm_km3_s2 > 0 && s->from->radius_km > 0;
+    int to_ok = s->to->gm_km3_s2 > 0 && s->to->radius_km > 0;
+    switch (f) {
+    case SY_F_DV_DEP: return o->want_park && from_ok;
+    case SY_F_DV_CAP: return o->want_capture && to_ok;
+    case SY_F_DV_TOTAL: return o->want_park && o->want_capture && from_ok && to_ok;
+    case SY_F_V_ENTRY: return o->want_entry && to_ok;
+    default: return 1;
+    }
+}
+
+void sy_grid_free(sy_grid *g)
+{
+    if (!g) return;
+    for (int f = 0; f < SY_NFIELDS; f++) free(g->field[f]);
+    free(g->status);
+    free(g->type);
+    free(g);
+}
+
+static void fmt_bytes(size_t b, char *buf, size_t n)
+{
+    if (b == SIZE_MAX) snprintf(buf, n, "more than this machine can address");
+    else if (b >= ((size_t)1 << 30)) snprintf(buf, n, "%.1f GiB", b / 1073741824.0);
+    else snprintf(buf, n, "%.1f MiB", b / 1048576.0);
+}
+
+typedef struct {
+    double r[3], v[3];
+    int ok;
+} state6;
+
+static void tabulate(const sy_body *b, double t0, double step, size_t n,
+                     state6 *out)
+{
+    for (size_t k = 0; k < n; k++)
+        out[k].ok = sy_body_state(b, t0 + (double)k * step, out[k].r, out[k].v) == SY_OK;
+}
+
+static void store_cell(sy_grid *g, size_t k, const sy_transfer *t)
+{
+    float *const *F = g->field;
+    const float vals[SY_NFIELDS] = {
+        [SY_F_C3] = (float)t->c3_km2_s2,
+        [SY_F_VINF_DEP] = (float)t->vinf_dep_km_s,
+        [SY_F_DLA] = (float)t->dla_deg,
+        [SY_F_RLA] = (float)t->rla_deg,
+        [SY_F_VINF_ARR] = (float)t->vinf_arr_km_s,
+        [SY_F_C3_ARR] = (float)t->c3_arr_km2_s2,
+        [SY_F_DAP] = (float)t->dap_deg,
+        [SY_F_RAP] = (float)t->rap_deg,
+        [SY_F_TOF] = (float)t->tof_days,
+        [SY_F_ANGLE] = (float)t->transfer_angle_deg,
+        [SY_F_MIN_SUN] = (float)t->min_sun_dist_au,
+        [SY_F_DV_DEP] = (float)t->dv_dep_km_s,
+        [SY_F_DV_CAP] = (float)t->dv_cap_km_s,
+        [SY_F_DV_TOTAL] = (float)t->dv_total_km_s,
+        [SY_F_V_ENTRY] = (float)t->v_entry_km_s,
+    };
+    for (int f = 0; f < SY_NFIELDS; f++)
+        if (F[f]) F[f][k] = vals[f];
+    g->type[k] = (unsigned char)t->type;
+}
+
+static void mark_cell(sy_grid *g, size_t k, unsigned char status)
+{
+    for (int f = 0; f < SY_NFIELDS; f++)
+        if (g->field[f]) g->field[f][k] = NAN;
+    g->status[k] = status;
+    g->type[k] = 0;
+}
+
+static unsigned char cell_status_of(sy_status st)
+{
+    switch (st) {
+    case SY_OK: return SY_CELL_OK;
+    case SY_ERR_NOSOL: return SY_CELL_NOSOL;
+    case SY_ERR_DEGENERATE: return SY_CELL_DEGENERATE;
+    default: return SY_CELL_NOCONV;
+    }
+}
+
+sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
+                          void *user, sy_grid **out, sy_error *err)
+{
+    *out = NULL;
+    if (!spec->from || !spec->to || spec->nx == 0 || spec->ny == 0 ||
+        !(spec->dx_days > 0) || !(spec->dy_days > 0))
+        return sy_fail(err, SY_ERR_ARG, "empty grid or non-positive step");
+    size_t need = sy_grid_bytes(spec), avail = memory_available();
+    if (need == SIZE_MAX || need > avail / 10 * 8) {
+        char nb[64], ab[64];
+        fmt_bytes(need, nb, sizeof nb);
+        fmt_bytes(avail, ab, sizeof ab);
+        return sy_fail(err, SY_ERR_NOMEM, "a grid of %zu x %zu cells needs %s but only %s of memory is available; use a larger step_days or narrower windows", spec->nx, spec->ny, nb, ab);
+    }
+    sy_grid *g = calloc(1, sizeof *g);
+    if (!g) return sy_fail(err, SY_ERR_NOMEM, "out of memory");
+    g->spec = *spec;
+    g->nx = spec->nx;
+    g->ny = spec->ny;
+    size_t cells = g->nx * g->ny;
+    g->status = calloc(cells, 1);
+    g->type = calloc(cells, 1);
+    int ok = g->status && g->type;
+    for (int f = 0; f < SY_NFIELDS && ok; f++)
+        if (field_available(spec, (sy_field)f)) {
+            g->field[f] = malloc(cells * sizeof(float));
+            ok = g->field[f] != NULL;
+        }
+    size_t narr = n_arrival_states(spec);
+    state6 *dep = malloc(g->nx * sizeof *dep);
+    state6 *arr = narr ? malloc(narr * sizeof *arr) : NULL;
+    if (!ok || !dep || (narr && !arr)) {
+        free(dep); free(arr); sy_grid_free(g);
+        return sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the grid");
+    }
+
+    double t0 = now_s();
+    long la = 0, lb = 0;
+    double lstep = 0, lbase = 0;
+    tabulate(spec->from, spec->x0_jd, spec->dx_days, g->nx, dep);
+    if (!spec->y_is_tof) {
+        tabulate(spec->to, spec->y0, spec->dy_days, g->ny, arr);
+    } else if (narr) {
+        size_t n;
+        tof_lattice(spec, &la, &lb, &lstep, &n);
+        lbase = spec->x0_jd + spec->y0;
+        tabulate(spec->to, lbase, lstep, n, arr);
+    }
+    double t1 = now_s();
+    g->seconds_ephem = t1 - t0;
+
+    const double gm1 = spec->from->gm_km3_s2, R1 = spec->from->radius_km;
+    const double gm2 = spec->to->gm_km3_s2, R2 = spec->to->radius_km;
+    int threads = spec->threads;
+#ifdef _OPENMP
+    if (threads <= 0) threads = omp_get_num_procs();
+#else
+    threads = 1;
+#endif
+    const size_t block_rows = g->ny > 64 ? (g->ny + 63) / 64 : 1;
+    sy_status result = SY_OK;
+    double ephem_cells = 0;
+    for (size_t j0 = 0; j0 < g->ny; j0 += block_rows) {
+        size_t j1 = j0 + block_rows < g->ny ? j0 + block_rows : g->ny;
+        long long kbeg = (long long)(j0 * g->nx), kend = (long long)(j1 * g->nx);
+        double extra = 0;
+#pragma omp parallel for schedule(dynamic, 64) num_threads(threads) reduction(+:extra)
+        for (long long kk = kbeg; kk < kend; kk++) {
+            size_t k = (size_t)kk, i = k % g->nx, j = k / g->nx;
+            double jd_dep = spec->x0_jd + (double)i * spec->dx_days;
+            double tof_d = spec->y_is_tof ? spec->y0 + (double)j * spec->dy_days
+                                          : spec->y0 + (double)j * spec->dy_days - jd_dep;
+            g->status[k] = SY_CELL_OK;
+            if (!(tof_d > 0)) { mark_cell(g, k, SY_CELL_NOTIME); continue; }
+            const state6 *d = &dep[i];
+            state6 a_local;
+            const state6 *a;
+            if (!spec->y_is_tof) {
+                a = &arr[j];
+            } else if (narr) {
+                a = &arr[(size_t)la * i + (size_t)lb * j];
+            } else {
+                double ta = now_s();
+                a_local.ok = sy_body_state(spec->to, jd_dep + tof_d, a_local.r, a_local.v) == SY_OK;
+                extra += now_s() - ta;
+                a = &a_local;
+            }
+            if (!d->ok || !a->ok) { mark_cell(g, k, SY_CELL_RANGE); continue; }
+            sy_transfer t;
+            sy_status st = sy_transfer_from_states(d->r, d->v, a->r, a->v, tof_d * SY_DAY_S,
+                                                   spec->revs, spec->branch, gm1, R1, gm2, R2,
+                                                   &spec->opts, &t);
+            if (st != SY_OK) { mark_cell(g, k, cell_status_of(st)); continue; }
+            store_cell(g, k, &t);
+        }
+        ephem_cells += extra;
+        if (progress && progress((double)j1 / (double)g->ny, user)) {
+            result = sy_fail(err, SY_ERR_IO, "interrupted");
+            break;
+        }
+    }
+    g->seconds_ephem += ephem_cells / threads;
+    g->seconds_cells = now_s() - t1 - ephem_cells / threads;
+    free(dep);
+    free(arr);
+    if (result != SY_OK) {
+        sy_grid_free(g);
+        return result;
+    }
+    *out = g;
+    return SY_OK;
+}
+
+int sy_grid_cell_feasible(const sy_grid *g, const sy_study *st, size_t k)
+{
+    if (g->status[k] != SY_CELL_OK) return 0;
+    float *const *F = g->field;
+    if (isfinite(st->c3_max_km2_s2) && !(F[SY_F_C3][k] <= st->c3_max_km2_s2)) return 0;
+    if (isfinite(st->vinf_arr_max_km_s) && !(F[SY_F_VINF_ARR][k] <= st->vinf_arr_max_km_s)) return 0;
+    if (isfinite(st->dla_max_deg) && !(fabsf(F[SY_F_DLA][k]) <= st->dla_max_deg)) return 0;
+    if (isfinite(st->tof_min_days) && !(F[SY_F_TOF][k] >= st->tof_min_days)) return 0;
+    if (isfinite(st->tof_max_days) && !(F[SY_F_TOF][k] <= st->tof_max_days)) return 0;
+    return 1;
+}
+
+unsigned char *sy_grid_violations(const sy_grid *g, const sy_study *st)
+{
+    size_t cells = g->nx * g->ny;
+    unsigned char *m = calloc(cells, 1);
+    if (!m) return NULL;
+    for (size_t k = 0; k < cells; k++)
+        m[k] = g->status[k] == SY_CELL_OK && !sy_grid_cell_feasible(g, st, k);
+    return m;
+}

@@ -1,0 +1,31 @@
+/* synodic/report.h - data files written beside the charts (libsynodic). */
+#ifndef SYNODIC_REPORT_H
+#define SYNODIC_REPORT_H
+
+#include "synodic.h"
+#include "synodic/grid.h"
+#include "synodic/study.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* The caution every report carries. */
+extern const char SY_CAUTION[];
+/* One-line model description: ephemeris and solver. */
+extern const char SY_MODEL_TEXT[];
+
+/* Long-form CSV: one row per cell, every stored field, dates as ISO (TDB)
+ * and JD.  Deterministic.  Written through a temporary file. */
+sy_status sy_report_csv(const sy_grid *g, const sy_study *st,
+                        const char *path, sy_error *err);
+/* JSON summary: study, model, grid, constraints, optima with every
+ * figure, program version.  Deterministic. */
+sy_status sy_report_json(const sy_grid *g, const sy_study *st,
+                         const sy_optimum *opt, size_t nopt,
+                         const char *path, sy_error *err);
+
+#ifdef __cplusplus
+}
+#endif
+#endif
