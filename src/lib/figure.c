@@ -12,12 +12,13 @@
 #include <stdlib.h>
 #include <string.h>
 
-/* Half-width (deg) of the band around a 180-degree transfer angle where
- * unresolvable iso-lines are left out (see ridge_mask()). */
+/* Half-width (deg) of the bands around transfer angles of 180 and 0/360
+ * deg where unresolvable iso-lines are left out (see ridge_mask()). */
 #define SY_FIGURE_RIDGE_DEG 12.0f
 
 /* Near a transfer angle of 180 deg every field climbs a narrow ridge (the
- * transfer plane swings to high inclination).  Where more than two levels
+ * transfer plane swings to high inclination), and so it does near 0/360
+ * deg on long flights to a body close to the departure orbit.  Where more than two levels
  * cross one grid step the grid cannot resolve the iso-lines: they bunch
  * into a solid band that says nothing but "avoid" and buries the labels.
  * Such nodes inside the ridge band become gaps for this field's lines. */
@@ -33,7 +34,9 @@ static void ridge_mask(const sy_grid *g, const float *z, const double *lv,
     for (size_t j = 0; j < ny; j++)
         for (size_t i = 0; i < nx; i++) {
             size_t k = j * nx + i;
-            if (out[k] || !(fabsf(ang[k] - 180.0f) < SY_FIGURE_RIDGE_DEG)) continue;
+            /* the ridges of 180 and 0/360 degrees alike */
+            float a = ang[k], off = fminf(fabsf(a - 180.0f), fminf(a, 360.0f - a));
+            if (out[k] || !(off < SY_FIGURE_RIDGE_DEG)) continue;
             double d = 0;
             const size_t nb[4] = {i > 0 ? k - 1 : k, i + 1 < nx ? k + 1 : k,
                                   j > 0 ? k - nx : k, j + 1 < ny ? k + nx : k};
