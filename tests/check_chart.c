@@ -674,9 +674,7 @@ END_TEST
  * LeakSanitizer reports only what the renderer itself might leak. */
 static void release_font_caches(void)
 {
-    pango_cairo_font_map_set_default(NULL);
-    cairo_debug_reset_static_data();
-    FcFini();
+    sy_chart_release_caches();
 }
 
 #ifndef CHECK_CHART_NO_MAIN

@@ -1,6 +1,7 @@
 /* cmd_chart.c - `synodic chart`: a study's porkchop chart and its data. */
 #include "config.h"
 #include "cli.h"
+#include "synodic/chart.h"
 #include "synodic/figure.h"
 #include "synodic/grid.h"
 #include "synodic/io.h"
@@ -217,6 +218,7 @@ int cmd_chart(int argc, char **argv)
         if (fflush(stdout) != 0) rc = cli_error(CLI_EXIT_IO, "cannot write to standard output");
     }
 out:
+    sy_chart_release_caches();
     sy_grid_free(g);
     sy_catalog_free(cat);
     free(st);

@@ -18,6 +18,7 @@
 #include <cairo-svg.h>
 #include <errno.h>
 #include <math.h>
+#include <fontconfig/fontconfig.h>
 #include <pango/pangocairo.h>
 #include <stdint.h>
 #include <stdlib.h>
@@ -2082,4 +2083,11 @@ sy_status sy_chart_layout_boxes(const sy_chart *chart, const sy_chart_page *page
     cairo_destroy(cr);
     cairo_surface_destroy(s);
     return st;
+}
+
+void sy_chart_release_caches(void)
+{
+    pango_cairo_font_map_set_default(NULL);
+    cairo_debug_reset_static_data();
+    FcFini();
 }

@@ -103,6 +103,9 @@ int main(int argc, char **argv)
     sy_error err;
     for (long r = 0; r < repeat; r++) {
         sy_grid *gr;
+        /* one grid alive at a time, so the peak memory is one grid's */
+        sy_grid_free(g);
+        g = NULL;
         double t0 = now_s();
         if (sy_grid_compute(&s, NULL, NULL, &gr, &err) != SY_OK) {
             fprintf(stderr, "grid-bench: %s\n", err.msg);
@@ -113,7 +116,6 @@ int main(int argc, char **argv)
             best = dt;
             ephem_share = gr->seconds_ephem / dt;
         }
-        sy_grid_free(g);
         g = gr;
     }
     size_t cells = g->nx * g->ny, finite = 0, kmin = 0;
