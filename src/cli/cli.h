@@ -32,11 +32,15 @@ int cmd_state(int argc, char **argv);
 int cmd_lambert(int argc, char **argv);
 int cmd_transfer(int argc, char **argv);
 int cmd_chart(int argc, char **argv);
+int cmd_period(int argc, char **argv);
+int cmd_windows(int argc, char **argv);
 void usage_bodies(FILE *out);
 void usage_state(FILE *out);
 void usage_lambert(FILE *out);
 void usage_transfer(FILE *out);
 void usage_chart(FILE *out);
+void usage_period(FILE *out);
+void usage_windows(FILE *out);
 
 /* Print "synodic: error: ..." on stderr and return code. */
 int cli_error(int code, const char *fmt, ...)

@@ -132,6 +132,13 @@ int cmd_chart(int argc, char **argv)
     unsigned formats = 0;
     int threads = 0, quiet = 0, c, rc = 0;
     if (!sets) return cli_error(CLI_EXIT_INTERNAL, "out of memory");
+    /* From the start, so that an interrupt at any moment exits with 6
+     * (and removes any temporary); a file-size limit (ulimit -f) must be
+     * a reported write error (EFBIG, removing the temporary), not a kill
+     * by SIGXFSZ. */
+    signal(SIGINT, on_signal);
+    signal(SIGTERM, on_signal);
+    signal(SIGXFSZ, SIG_IGN);
     opterr = 0;
     while ((c = getopt_long(argc, argv, ":o:", longopts, NULL)) != -1) {
         switch (c) {
@@ -162,8 +169,15 @@ int cmd_chart(int argc, char **argv)
     sy_grid *g = NULL;
     const sy_body *from, *to;
     if ((rc = cli_catalog(st->bodies_file[0] ? st->bodies_file : NULL, &cat))) goto out;
-    if ((rc = cli_find_body(cat, st->origin, &from))) goto out;
-    if ((rc = cli_find_body(cat, st->target, &to))) goto out;
+    /* Name the study file and key: the body came from there. */
+    for (int k = 0; k < 2; k++) {
+        const char *name = k ? st->target : st->origin;
+        sy_error ferr;
+        if ((s = sy_catalog_find(cat, name, k ? &to : &from, &ferr)) != SY_OK) {
+            rc = cli_error(cli_exit_for(s), "%s: [transfer] key '%s': %s", st->path, k ? "target" : "origin", ferr.msg);
+            goto out;
+        }
+    }
     if (from == to) { rc = cli_error(CLI_EXIT_INPUT, "%s: origin and target are both %s; choose two different bodies", st->path, from->name); goto out; }
     sy_grid_spec spec;
     if ((s = sy_grid_spec_from_study(st, from, to, &spec, &err)) != SY_OK) {
@@ -173,8 +187,6 @@ int cmd_chart(int argc, char **argv)
     spec.threads = threads;
     if ((rc = ensure_dir(st->out_dir))) goto out;
 
-    signal(SIGINT, on_signal);
-    signal(SIGTERM, on_signal);
     int last = -1;
     int show = !quiet && isatty(STDERR_FILENO) && spec.nx * spec.ny >= 200000;
     s = sy_grid_compute(&spec, show ? progress_bar : NULL, &last, &g, &err);

@@ -11,6 +11,8 @@ static const cli_command commands[] = {
     {"lambert", "solve Lambert's problem between two position vectors", cmd_lambert, usage_lambert},
     {"transfer", "launch and arrival figures of one transfer", cmd_transfer, usage_transfer},
     {"chart", "porkchop chart and data of a study file", cmd_chart, usage_chart},
+    {"period", "launch-period design: minimax C3 and longest period of a study", cmd_period, usage_period},
+    {"windows", "launch opportunities across years: scan, table, charts, atlas", cmd_windows, usage_windows},
 };
 #define NCOMMANDS (sizeof commands / sizeof commands[0])
 

@@ -493,6 +493,14 @@ static char *reader(char *str, int num, void *stream)
     char *s = c->buf;
     while (*s == ' ' || *s == '\t')
         s++;
+    /* A NUL would silently cut the line short for inih (and hide the
+     * rest of the value); a bodies file is text. */
+    if (memchr(c->buf, '\0', (size_t)n)) {
+        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+                 "NUL byte in the line; a bodies file is UTF-8 text");
+        snprintf(str, (size_t)num, "\n");
+        return str;
+    }
     if (strlen(s) + 1 > (size_t)num) {
         ctx_fail(c, SY_ERR_PARSE, c->lineno,
                  "line longer than %d characters", num - 2);

@@ -12,6 +12,7 @@
 #include "synodic.h"
 #include "synodic/chart.h"
 #include "synodic/io.h"
+#include "chart_priv.h"
 
 #include <cairo.h>
 #include <cairo-pdf.h>
@@ -55,20 +56,18 @@
  * yellow-green and teal, so its order reads without colour vision.
  * Constraint regions use hatching (a pattern, not a colour) over a faint
  * tint; "no solution" is neutral grey. */
-typedef struct { double r, g, b; } rgb;
-#define HEX(h) {((h) >> 16 & 0xff) / 255.0, ((h) >> 8 & 0xff) / 255.0, ((h) & 0xff) / 255.0}
 
-static const rgb COL_ROLE[3] = {HEX(0x1F4A99), HEX(0xD35F0D), HEX(0x993333)};
-static const rgb COL_TOF = HEX(0x8A8A8A);
-static const rgb COL_BOUNDARY = HEX(0x222222);
-static const rgb COL_GRID = HEX(0xE4E4E4);
-static const rgb COL_FRAME = HEX(0x4D4D4D);
-static const rgb COL_TEXT = HEX(0x1A1A1A);
-static const rgb COL_FOOT = HEX(0x444444);
-static const rgb COL_NOSOL = HEX(0xD0D0D0);
-static const rgb COL_HATCH[4] = {HEX(0x4C4C66), HEX(0x2F5F4F), HEX(0x6A5A3A), HEX(0x5A5A5A)};
-static const rgb RAMP[7] = {HEX(0xFBF3D2), HEX(0xE6DFA0), HEX(0xB4CD8F), HEX(0x76B09A),
-                            HEX(0x43899A), HEX(0x2F6190), HEX(0x283B6F)};
+const syc_rgb SYC_COL_ROLE[3] = {SYC_HEX(0x1F4A99), SYC_HEX(0xD35F0D), SYC_HEX(0x993333)};
+static const syc_rgb COL_TOF = SYC_HEX(0x8A8A8A);
+static const syc_rgb COL_BOUNDARY = SYC_HEX(0x222222);
+const syc_rgb SYC_COL_GRID = SYC_HEX(0xE4E4E4);
+const syc_rgb SYC_COL_FRAME = SYC_HEX(0x4D4D4D);
+const syc_rgb SYC_COL_TEXT = SYC_HEX(0x1A1A1A);
+const syc_rgb SYC_COL_FOOT = SYC_HEX(0x444444);
+static const syc_rgb COL_NOSOL = SYC_HEX(0xD0D0D0);
+static const syc_rgb COL_HATCH[4] = {SYC_HEX(0x4C4C66), SYC_HEX(0x2F5F4F), SYC_HEX(0x6A5A3A), SYC_HEX(0x5A5A5A)};
+static const syc_rgb RAMP[7] = {SYC_HEX(0xFBF3D2), SYC_HEX(0xE6DFA0), SYC_HEX(0xB4CD8F), SYC_HEX(0x76B09A),
+                            SYC_HEX(0x43899A), SYC_HEX(0x2F6190), SYC_HEX(0x283B6F)};
 
 /* Dash patterns in units of the base line width scale. */
 static const double DASH_SECONDARY[] = {4.2, 1.8};
@@ -79,13 +78,8 @@ static const double DASH_BOUNDARY[] = {7.0, 1.6, 1.2, 1.6, 1.2, 1.6};
 /* ------------------------------------------------------------------ */
 /* Small utilities                                                     */
 
-typedef struct {
-    char *p;
-    size_t n, cap;
-    int oom;
-} membuf;
 
-static void mb_put(membuf *m, const void *data, size_t n)
+void syc_mb_put(syc_membuf *m, const void *data, size_t n)
 {
     if (m->oom) return;
     if (m->n + n + 1 > m->cap) {
@@ -101,20 +95,20 @@ static void mb_put(membuf *m, const void *data, size_t n)
     m->p[m->n] = '\0';
 }
 
-static void mb_puts(membuf *m, const char *s) { mb_put(m, s, strlen(s)); }
+void syc_mb_puts(syc_membuf *m, const char *s) { syc_mb_put(m, s, strlen(s)); }
 
 /* XML text escaping for the SVG title/desc. */
-static void mb_put_xml(membuf *m, const char *s)
+void syc_mb_put_xml(syc_membuf *m, const char *s)
 {
     for (; s && *s; s++) {
         switch (*s) {
-        case '&': mb_puts(m, "&amp;"); break;
-        case '<': mb_puts(m, "&lt;"); break;
-        case '>': mb_puts(m, "&gt;"); break;
-        case '"': mb_puts(m, "&quot;"); break;
+        case '&': syc_mb_puts(m, "&amp;"); break;
+        case '<': syc_mb_puts(m, "&lt;"); break;
+        case '>': syc_mb_puts(m, "&gt;"); break;
+        case '"': syc_mb_puts(m, "&quot;"); break;
         default:
-            if ((unsigned char)*s < 32 && *s != '\n' && *s != '\t') mb_puts(m, " ");
-            else mb_put(m, s, 1);
+            if ((unsigned char)*s < 32 && *s != '\n' && *s != '\t') syc_mb_puts(m, " ");
+            else syc_mb_put(m, s, 1);
         }
     }
 }
@@ -238,48 +232,8 @@ static void box_corners(const sy_chart_box *b, double c[4][2])
 /* ------------------------------------------------------------------ */
 /* Render context                                                      */
 
-#define MAX_TICKS 96
 
-typedef struct {
-    int n;
-    double v[MAX_TICKS];          /* data values                      */
-    char lab[MAX_TICKS][40];      /* label text (may contain \n)      */
-} ticks;
-
-typedef enum { LEG_LINE, LEG_REGION, LEG_NOSOL, LEG_MARKER } leg_kind;
-
-typedef struct {
-    leg_kind kind;
-    int style;                    /* role 0-2, 3 TOF, 4 boundary; region index; symbol */
-    const char *text;
-    double w;                     /* entry width, pt                  */
-    double x, y;                  /* placed top left                  */
-} leg_entry;
-
-typedef struct {
-    const sy_chart *c;
-    const sy_chart_page *pg;
-    cairo_t *cr;
-    PangoContext *pc;
-    double W, H, m;
-    double fs_title, fs_sub, fs_axis, fs_tick, fs_label, fs_leg, fs_foot, fs_mark;
-    double lw;                    /* line width scale                 */
-    double px0, py0, px1, py1;    /* plot rectangle                   */
-    double xmin, xmax, ymin, ymax;
-    ticks xt, yt;
-    double xtick_top, xtitle_y, ytitle_x, title_y, sub_y;
-    double leg_x, leg_y, leg_w, leg_h, foot_y;
-    leg_entry leg[24];
-    int nleg;
-    double cbar_x, cbar_w;        /* colour bar                       */
-    sy_chart_box *boxes;
-    int *styles;                  /* line style of each box's line    */
-    int cur_style;                /* style given to boxes pushed now  */
-    size_t nboxes, capboxes;
-    int oom;
-} ctx;
-
-static int box_push(ctx *x, const sy_chart_box *b)
+static int box_push(syc_ctx *x, const sy_chart_box *b)
 {
     if (x->nboxes == x->capboxes) {
         size_t c = x->capboxes ? 2 * x->capboxes : 64;
@@ -296,7 +250,7 @@ static int box_push(ctx *x, const sy_chart_box *b)
     return 1;
 }
 
-static int box_free_spot(const ctx *x, const sy_chart_box *b, double gap,
+static int box_free_spot(const syc_ctx *x, const sy_chart_box *b, double gap,
                          double inset)
 {
     double c[4][2];
@@ -311,22 +265,22 @@ static int box_free_spot(const ctx *x, const sy_chart_box *b, double gap,
 }
 
 /* Data -> page. */
-static double X_of(const ctx *x, double xd)
+static double X_of(const syc_ctx *x, double xd)
 {
     return x->px0 + (xd - x->xmin) / (x->xmax - x->xmin) * (x->px1 - x->px0);
 }
-static double Y_of(const ctx *x, double yd)
+static double Y_of(const syc_ctx *x, double yd)
 {
     return x->py1 - (yd - x->ymin) / (x->ymax - x->ymin) * (x->py1 - x->py0);
 }
 /* Grid index -> page. */
-static double Xi(const ctx *x, double i) { return X_of(x, x->c->x0_jd + i * x->c->dx_days); }
-static double Yj(const ctx *x, double j) { return Y_of(x, x->c->y0 + j * x->c->dy); }
+static double Xi(const syc_ctx *x, double i) { return X_of(x, x->c->x0_jd + i * x->c->dx_days); }
+static double Yj(const syc_ctx *x, double j) { return Y_of(x, x->c->y0 + j * x->c->dy); }
 
 /* ------------------------------------------------------------------ */
 /* Text                                                                */
 
-static PangoLayout *mk_layout(ctx *x, const char *text, double size_pt, int bold,
+PangoLayout *syc_layout(syc_ctx *x, const char *text, double size_pt, int bold,
                               int italic, double wrap_w, PangoAlignment al)
 {
     PangoLayout *l = pango_layout_new(x->pc);
@@ -346,7 +300,7 @@ static PangoLayout *mk_layout(ctx *x, const char *text, double size_pt, int bold
     return l;
 }
 
-static void layout_size(PangoLayout *l, double *w, double *h)
+void syc_layout_size(PangoLayout *l, double *w, double *h)
 {
     PangoRectangle lr;
     pango_layout_get_extents(l, NULL, &lr);
@@ -354,18 +308,18 @@ static void layout_size(PangoLayout *l, double *w, double *h)
     if (h) *h = (double)lr.height / PANGO_SCALE;
 }
 
-static void text_size(ctx *x, const char *t, double fs, int bold, double *w, double *h)
+void syc_text_size(syc_ctx *x, const char *t, double fs, int bold, double *w, double *h)
 {
-    PangoLayout *l = mk_layout(x, t, fs, bold, 0, 0, PANGO_ALIGN_LEFT);
-    layout_size(l, w, h);
+    PangoLayout *l = syc_layout(x, t, fs, bold, 0, 0, PANGO_ALIGN_LEFT);
+    syc_layout_size(l, w, h);
     g_object_unref(l);
 }
 
 /* Draw l with its logical box anchored at (px, py): ax, ay in 0..1 pick
  * the anchor point inside the box (0,0 top left, 0.5,0.5 centre), and the
  * box is rotated by ang about the anchor. */
-static void draw_layout(ctx *x, PangoLayout *l, double px, double py, double ax,
-                        double ay, double ang, rgb col)
+void syc_draw_layout(syc_ctx *x, PangoLayout *l, double px, double py, double ax,
+                        double ay, double ang, syc_rgb col)
 {
     PangoRectangle lr;
     pango_layout_get_extents(l, NULL, &lr);
@@ -381,13 +335,13 @@ static void draw_layout(ctx *x, PangoLayout *l, double px, double py, double ax,
     cairo_restore(x->cr);
 }
 
-static void draw_text(ctx *x, const char *t, double fs, int bold, double px, double py,
-                      double ax, double ay, double ang, rgb col)
+void syc_draw_text(syc_ctx *x, const char *t, double fs, int bold, double px, double py,
+                      double ax, double ay, double ang, syc_rgb col)
 {
     PangoAlignment al = ax < 0.25 ? PANGO_ALIGN_LEFT : ax > 0.75 ? PANGO_ALIGN_RIGHT
                                                                  : PANGO_ALIGN_CENTER;
-    PangoLayout *l = mk_layout(x, t, fs, bold, 0, 0, al);
-    draw_layout(x, l, px, py, ax, ay, ang, col);
+    PangoLayout *l = syc_layout(x, t, fs, bold, 0, 0, al);
+    syc_draw_layout(x, l, px, py, ax, ay, ang, col);
     g_object_unref(l);
 }
 
@@ -404,7 +358,7 @@ static const tick_step DATE_STEPS[] = {
     {TK_YEARS, 1}, {TK_YEARS, 2}, {TK_YEARS, 5}, {TK_YEARS, 10},
     {TK_YEARS, 20}, {TK_YEARS, 50}, {TK_YEARS, 100}};
 
-static void date_ticks(double a, double b, tick_step st, ticks *t)
+static void date_ticks(double a, double b, tick_step st, syc_ticks *t)
 {
     t->n = 0;
     int y, m, d;
@@ -414,7 +368,7 @@ static void date_ticks(double a, double b, tick_step st, ticks *t)
     if (st.kind == TK_DAYS || st.kind == TK_WEEKS) {
         double j = floor(a - 0.5) + 0.5;
         if (j < a - 1e-9) j += 1.0;
-        for (; j <= b + 1e-9 && t->n < MAX_TICKS; j += 1.0) {
+        for (; j <= b + 1e-9 && t->n < SYC_MAX_TICKS; j += 1.0) {
             long jdn = (long)floor(j + 0.5);
             /* JDN mod 7 == 0 is a Monday (common practice) */
             if (st.kind == TK_DAYS && jdn % st.n != 0) continue;
@@ -423,10 +377,10 @@ static void date_ticks(double a, double b, tick_step st, ticks *t)
         }
     } else {
         int yy = y, mm = m;
-        for (int guard = 0; guard < 20000 && t->n < MAX_TICKS; guard++) {
+        for (int guard = 0; guard < 20000 && t->n < SYC_MAX_TICKS; guard++) {
             static const int md3[3] = {1, 11, 21}, md2[2] = {1, 16};
             int nd = st.kind == TK_MDAYS ? st.n : 1;
-            for (int k = 0; k < nd && t->n < MAX_TICKS; k++) {
+            for (int k = 0; k < nd && t->n < SYC_MAX_TICKS; k++) {
                 int day = st.kind == TK_MDAYS ? (st.n == 3 ? md3[k] : md2[k]) : 1;
                 if (st.kind == TK_MONTHS && (mm - 1) % st.n != 0) continue;
                 if (st.kind == TK_YEARS && (mm != 1 || yy % st.n != 0)) continue;
@@ -454,11 +408,11 @@ static void date_ticks(double a, double b, tick_step st, ticks *t)
     }
 }
 
-static void num_ticks(double a, double b, double step, ticks *t)
+void syc_num_ticks_step(double a, double b, double step, syc_ticks *t)
 {
     t->n = 0;
     double first = ceil(a / step - 1e-9) * step;
-    for (double v = first; v <= b + 1e-9 * fabs(step) && t->n < MAX_TICKS; v += step) {
+    for (double v = first; v <= b + 1e-9 * fabs(step) && t->n < SYC_MAX_TICKS; v += step) {
         double vv = fabs(v) < 1e-9 * step ? 0.0 : v;
         t->v[t->n] = vv;
         sy_chart_format_level(vv, step, t->lab[t->n], sizeof t->lab[t->n]);
@@ -469,14 +423,14 @@ static void num_ticks(double a, double b, double step, ticks *t)
 /* Does the tick set fit along an axis of `len` points?  Horizontal axis:
  * neighbouring labels must be apart by their half widths plus a gap;
  * vertical axis: by their heights.  min_sp keeps grids from crowding. */
-static int ticks_fit(ctx *x, const ticks *t, int horizontal, double len, double span,
+static int ticks_fit(syc_ctx *x, const syc_ticks *t, int horizontal, double len, double span,
                      double min_sp)
 {
     if (t->n > 40) return 0;
     double prev_pos = 0, prev_ext = 0;
     for (int k = 0; k < t->n; k++) {
         double w, h;
-        text_size(x, t->lab[k], x->fs_tick, 0, &w, &h);
+        syc_text_size(x, t->lab[k], x->fs_tick, 0, &w, &h);
         double pos = t->v[k] / span * len;
         double ext = horizontal ? w / 2 : h / 2;
         if (k > 0) {
@@ -490,8 +444,8 @@ static int ticks_fit(ctx *x, const ticks *t, int horizontal, double len, double 
     return 1;
 }
 
-static void choose_date_ticks(ctx *x, double a, double b, int horizontal, double len,
-                              ticks *t)
+void syc_date_ticks(syc_ctx *x, double a, double b, int horizontal, double len,
+                              syc_ticks *t)
 {
     size_t ns = sizeof DATE_STEPS / sizeof DATE_STEPS[0];
     for (size_t k = 0; k < ns; k++) {
@@ -504,7 +458,7 @@ static void choose_date_ticks(ctx *x, double a, double b, int horizontal, double
         if ((b - a) / approx[k] > 60) continue;
         date_ticks(a, b, DATE_STEPS[k], t);
         if (t->n == 0) continue;
-        ticks shifted = *t;
+        syc_ticks shifted = *t;
         for (int q = 0; q < shifted.n; q++) shifted.v[q] -= a;
         if (ticks_fit(x, &shifted, horizontal, len, b - a, len / 14.0)) return;
     }
@@ -512,38 +466,38 @@ static void choose_date_ticks(ctx *x, double a, double b, int horizontal, double
     date_ticks(a, b, DATE_STEPS[ns - 1], t);
 }
 
-static void choose_num_ticks(ctx *x, double a, double b, int horizontal, double len,
-                             ticks *t)
+void syc_num_ticks(syc_ctx *x, double a, double b, int horizontal, double len,
+                             syc_ticks *t)
 {
     double span = b - a;
     double p = pow(10.0, floor(log10(span / 20.0)));
     static const double mult[] = {1, 2, 5, 10, 20, 50, 100, 200, 500, 1000};
     for (size_t k = 0; k < sizeof mult / sizeof mult[0]; k++) {
-        num_ticks(a, b, mult[k] * p, t);
-        ticks shifted = *t;
+        syc_num_ticks_step(a, b, mult[k] * p, t);
+        syc_ticks shifted = *t;
         for (int q = 0; q < shifted.n; q++) shifted.v[q] -= a;
         if (t->n >= 2 && ticks_fit(x, &shifted, horizontal, len, span, len / 14.0)) return;
     }
-    num_ticks(a, b, span, t);
+    syc_num_ticks_step(a, b, span, t);
 }
 
 /* ------------------------------------------------------------------ */
 /* Line styles                                                         */
 
 /* style: 0-2 roles, 3 TOF, 4 boundary */
-static void set_line_style(ctx *x, int style, double scale_w)
+void syc_line_style(syc_ctx *x, int style, double scale_w)
 {
     cairo_t *cr = x->cr;
     double u = x->lw;
     double dash[8];
     int nd = 0;
     const double *pat = NULL;
-    rgb col;
+    syc_rgb col;
     double w;
     switch (style) {
-    case 0: col = COL_ROLE[0]; w = 1.05; break;
-    case 1: col = COL_ROLE[1]; w = 0.95; pat = DASH_SECONDARY; nd = 2; break;
-    case 2: col = COL_ROLE[2]; w = 0.8; pat = DASH_TERTIARY; nd = 4; break;
+    case 0: col = SYC_COL_ROLE[0]; w = 1.05; break;
+    case 1: col = SYC_COL_ROLE[1]; w = 0.95; pat = DASH_SECONDARY; nd = 2; break;
+    case 2: col = SYC_COL_ROLE[2]; w = 0.8; pat = DASH_TERTIARY; nd = 4; break;
     case 3: col = COL_TOF; w = 0.55; pat = DASH_TOF; nd = 2; break;
     default: col = COL_BOUNDARY; w = 1.5; pat = DASH_BOUNDARY; nd = 6; break;
     }
@@ -555,10 +509,10 @@ static void set_line_style(ctx *x, int style, double scale_w)
     cairo_set_dash(cr, dash, nd, 0);
 }
 
-static rgb style_colour(int style)
+static syc_rgb style_colour(int style)
 {
     switch (style) {
-    case 0: case 1: case 2: return COL_ROLE[style];
+    case 0: case 1: case 2: return SYC_COL_ROLE[style];
     case 3: return COL_TOF;
     default: return COL_BOUNDARY;
     }
@@ -567,7 +521,7 @@ static rgb style_colour(int style)
 /* ------------------------------------------------------------------ */
 /* Layout                                                              */
 
-static void legend_collect(ctx *x)
+static void legend_collect(syc_ctx *x)
 {
     const sy_chart *c = x->c;
     x->nleg = 0;
@@ -577,30 +531,32 @@ static void legend_collect(ctx *x)
     for (int role = 0; role < 3; role++)
         for (size_t k = 0; k < c->nisolines; k++)
             if ((int)c->isolines[k].role == role && c->isolines[k].nsets)
-                LEG(LEG_LINE, role, c->isolines[k].legend);
-    if (c->tof && c->tof->n) LEG(LEG_LINE, 3, c->tof->legend ? c->tof->legend : "Time of flight, days");
+                LEG(SYC_LEG_LINE, role, c->isolines[k].legend);
+    if (c->tof && c->tof->n) LEG(SYC_LEG_LINE, 3, c->tof->legend ? c->tof->legend : "Time of flight, days");
     if (c->boundary && c->boundary->nlines)
-        LEG(LEG_LINE, 4, c->boundary->legend ? c->boundary->legend : "Type I / Type II boundary");
+        LEG(SYC_LEG_LINE, 4, c->boundary->legend ? c->boundary->legend : "Type I / Type II boundary");
     for (size_t k = 0; k < c->nregions && k < 4; k++)
-        if (c->regions[k].mask) LEG(LEG_REGION, (int)k, c->regions[k].legend);
-    if (c->nosol_mask) LEG(LEG_NOSOL, 0, c->nosol_legend ? c->nosol_legend : "No solution");
+        if (c->regions[k].mask) LEG(SYC_LEG_REGION, (int)k, c->regions[k].legend);
+    if (c->nosol_mask) LEG(SYC_LEG_NOSOL, 0, c->nosol_legend ? c->nosol_legend : "No solution");
     for (size_t k = 0; k < c->nmarkers; k++)
-        if (c->markers[k].legend) LEG(LEG_MARKER, (int)c->markers[k].symbol, c->markers[k].legend);
+        if (c->markers[k].legend) LEG(SYC_LEG_MARKER, (int)c->markers[k].symbol, c->markers[k].legend);
+    for (size_t k = 0; k < c->npaths; k++)
+        if (c->paths[k].legend) LEG(SYC_LEG_PATH, (int)k, c->paths[k].legend);
 #undef LEG
 }
 
-static double legend_flow(ctx *x, double avail_w)
+double syc_legend_flow(syc_ctx *x, double avail_w)
 {
     /* entries flow left to right and wrap; returns the block height */
     double sw = 2.4 * x->fs_leg, gap = 0.45 * x->fs_leg, egap = 1.3 * x->fs_leg;
     double pad = 0.5 * x->fs_leg;
     double rowh = 0, lx = pad, ly = pad, maxw = 0;
     double th;
-    text_size(x, "Ag", x->fs_leg, 0, NULL, &th);
+    syc_text_size(x, "Ag", x->fs_leg, 0, NULL, &th);
     rowh = th;
     for (int k = 0; k < x->nleg; k++) {
         double w;
-        text_size(x, x->leg[k].text, x->fs_leg, 0, &w, NULL);
+        syc_text_size(x, x->leg[k].text, x->fs_leg, 0, &w, NULL);
         x->leg[k].w = sw + gap + w;
         if (lx > pad && lx + x->leg[k].w > avail_w - pad) {
             lx = pad;
@@ -615,15 +571,13 @@ static double legend_flow(ctx *x, double avail_w)
     return x->nleg ? ly + rowh + pad : 0;
 }
 
-static void do_layout(ctx *x)
+void syc_fonts(syc_ctx *x, double width_in, double height_in)
 {
-    const sy_chart *c = x->c;
-    const sy_chart_page *pg = x->pg;
-    x->W = pg->width_in * 72.0;
-    x->H = pg->height_in * 72.0;
+    x->W = width_in * 72.0;
+    x->H = height_in * 72.0;
     /* Base size grows with the page but much more slowly than the page:
      * 7.3 pt at a 3.5 in column, 10.5 pt at 10 in, clamped to 6.5..12. */
-    double ref = fmin(pg->width_in, pg->height_in * 1.35);
+    double ref = fmin(width_in, height_in * 1.35);
     double base = 5.6 + 0.5 * ref;
     if (base < 6.5) base = 6.5;
     if (base > 12.0) base = 12.0;
@@ -637,52 +591,68 @@ static void do_layout(ctx *x)
     x->fs_foot = fmax(5.6, base * 0.72);
     x->lw = fmax(0.75, base / 9.0);
     x->m = 0.7 * base;
+}
+
+double syc_layout_head(syc_ctx *x, const char *title, const char *subtitle)
+{
+    double full_w = x->W - 2 * x->m, top = x->m, h;
+    if (title && *title) {
+        PangoLayout *l = syc_layout(x, title, x->fs_title, 1, 0, full_w, PANGO_ALIGN_LEFT);
+        syc_layout_size(l, NULL, &h);
+        g_object_unref(l);
+        x->title_y = top;
+        top += h;
+    }
+    if (subtitle && *subtitle) {
+        PangoLayout *l = syc_layout(x, subtitle, x->fs_sub, 0, 0, full_w, PANGO_ALIGN_LEFT);
+        syc_layout_size(l, NULL, &h);
+        g_object_unref(l);
+        x->sub_y = top;
+        top += h;
+    }
+    return top + 0.6 * x->fs_axis;
+}
+
+double syc_layout_foot(syc_ctx *x, const char *const *footer, size_t nfooter)
+{
+    double full_w = x->W - 2 * x->m, bottom = x->H - x->m, foot_h = 0, h;
+    for (size_t k = 0; k < nfooter; k++) {
+        PangoLayout *l = syc_layout(x, footer[k], x->fs_foot, 0, 0, full_w, PANGO_ALIGN_LEFT);
+        syc_layout_size(l, NULL, &h);
+        g_object_unref(l);
+        foot_h += h;
+    }
+    x->foot_y = bottom - foot_h;
+    return x->foot_y - (foot_h > 0 ? 0.5 * x->fs_axis : 0);
+}
+
+static void do_layout(syc_ctx *x)
+{
+    const sy_chart *c = x->c;
+    const sy_chart_page *pg = x->pg;
+    syc_fonts(x, pg->width_in, pg->height_in);
+    double base = x->fs_axis;
 
     x->xmin = c->x0_jd;
     x->xmax = c->x0_jd + (double)(c->nx - 1) * c->dx_days;
     x->ymin = c->y0;
     x->ymax = c->y0 + (double)(c->ny - 1) * c->dy;
 
-    double W = x->W, H = x->H, m = x->m, full_w = W - 2 * m;
-    double top = m, h;
-    if (c->title && *c->title) {
-        PangoLayout *l = mk_layout(x, c->title, x->fs_title, 1, 0, full_w, PANGO_ALIGN_LEFT);
-        layout_size(l, NULL, &h);
-        g_object_unref(l);
-        x->title_y = top;
-        top += h;
-    }
-    if (c->subtitle && *c->subtitle) {
-        PangoLayout *l = mk_layout(x, c->subtitle, x->fs_sub, 0, 0, full_w, PANGO_ALIGN_LEFT);
-        layout_size(l, NULL, &h);
-        g_object_unref(l);
-        x->sub_y = top;
-        top += h;
-    }
-    top += 0.6 * base;
-
-    /* footer, bottom up */
-    double bottom = H - m, foot_h = 0;
-    for (size_t k = 0; k < c->nfooter; k++) {
-        PangoLayout *l = mk_layout(x, c->footer[k], x->fs_foot, 0, 0, full_w, PANGO_ALIGN_LEFT);
-        layout_size(l, NULL, &h);
-        g_object_unref(l);
-        foot_h += h;
-    }
-    x->foot_y = bottom - foot_h;
-    bottom = x->foot_y - (foot_h > 0 ? 0.5 * base : 0);
+    double W = x->W, m = x->m, full_w = W - 2 * m;
+    double top = syc_layout_head(x, c->title, c->subtitle);
+    double bottom = syc_layout_foot(x, c->footer, c->nfooter);
 
     legend_collect(x);
-    double leg_h = legend_flow(x, full_w);
+    double leg_h = syc_legend_flow(x, full_w);
     x->leg_h = leg_h;
     x->leg_y = bottom - leg_h;
     if (leg_h > 0) bottom = x->leg_y - 0.5 * base;
 
     double tl, lh;
-    text_size(x, "Ag", x->fs_tick, 0, NULL, &lh);
+    syc_text_size(x, "Ag", x->fs_tick, 0, NULL, &lh);
     tl = 0.35 * base;                              /* tick length    */
     double xtitle_h = 0;
-    if (c->xtitle && *c->xtitle) text_size(x, c->xtitle, x->fs_axis, 0, NULL, &xtitle_h);
+    if (c->xtitle && *c->xtitle) syc_text_size(x, c->xtitle, x->fs_axis, 0, NULL, &xtitle_h);
     x->xtitle_y = bottom - xtitle_h;
     x->xtick_top = 0; /* set below */
     double plot_bottom = x->xtitle_y - 0.25 * base - lh - tl - 0.2 * base;
@@ -694,17 +664,17 @@ static void do_layout(ctx *x)
     /* y ticks need the plot height only */
     double plot_h = x->py1 - x->py0;
     if (c->yaxis == SY_CHART_Y_ARRIVAL)
-        choose_date_ticks(x, x->ymin, x->ymax, 0, plot_h, &x->yt);
+        syc_date_ticks(x, x->ymin, x->ymax, 0, plot_h, &x->yt);
     else
-        choose_num_ticks(x, x->ymin, x->ymax, 0, plot_h, &x->yt);
+        syc_num_ticks(x, x->ymin, x->ymax, 0, plot_h, &x->yt);
     double ylab_w = 0;
     for (int k = 0; k < x->yt.n; k++) {
         double w;
-        text_size(x, x->yt.lab[k], x->fs_tick, 0, &w, NULL);
+        syc_text_size(x, x->yt.lab[k], x->fs_tick, 0, &w, NULL);
         if (w > ylab_w) ylab_w = w;
     }
     double ytitle_h = 0;
-    if (c->ytitle && *c->ytitle) text_size(x, c->ytitle, x->fs_axis, 0, NULL, &ytitle_h);
+    if (c->ytitle && *c->ytitle) syc_text_size(x, c->ytitle, x->fs_axis, 0, NULL, &ytitle_h);
     x->ytitle_x = m;
     x->px0 = m + ytitle_h + 0.35 * base + ylab_w + tl + 0.2 * base;
 
@@ -718,10 +688,10 @@ static void do_layout(ctx *x)
             char b[32];
             sy_chart_format_level(c->fill->levels[k], step, b, sizeof b);
             double w;
-            text_size(x, b, x->fs_tick, 0, &w, NULL);
+            syc_text_size(x, b, x->fs_tick, 0, &w, NULL);
             if (w > lw_max) lw_max = w;
         }
-        if (c->fill->title) text_size(x, c->fill->title, x->fs_axis, 0, NULL, &ct_h);
+        if (c->fill->title) syc_text_size(x, c->fill->title, x->fs_axis, 0, NULL, &ct_h);
         x->cbar_w = 0.8 * base;
         x->cbar_x = W - m - ct_h - 0.4 * base - lw_max - 0.3 * base - tl - x->cbar_w;
         right = x->cbar_x - 1.1 * base;
@@ -730,7 +700,7 @@ static void do_layout(ctx *x)
     if (x->px1 - x->px0 < 3 * base) x->px1 = x->px0 + 3 * base;
     /* one-line labels; the year is shown on the first tick and where it
      * changes */
-    choose_date_ticks(x, x->xmin, x->xmax, 1, x->px1 - x->px0, &x->xt);
+    syc_date_ticks(x, x->xmin, x->xmax, 1, x->px1 - x->px0, &x->xt);
 
     /* legend block: aligned with the plot if it fits there */
     x->leg_x = m;
@@ -747,7 +717,7 @@ typedef struct {
     double *s;          /* cumulative arc length */
 } pline;
 
-static int pline_from_grid(ctx *x, const sy_polyline *pl, pline *o)
+static int pline_from_grid(syc_ctx *x, const sy_polyline *pl, pline *o)
 {
     o->n = pl->n + (pl->closed ? 1 : 0);
     o->p = malloc(2 * o->n * sizeof *o->p);
@@ -787,7 +757,7 @@ static void pline_at(const pline *pl, double s, double *px, double *py, size_t *
  * further labels on the same line only at least `spacing` further along.
  * Deterministic: candidates are scanned in arc-length order and ties keep
  * the first. */
-static int place_on_line(ctx *x, const pline *pl, double tw, double th,
+static int place_on_line(syc_ctx *x, const pline *pl, double tw, double th,
                          sy_chart_box_kind kind, const char *text, int maxn,
                          double spacing)
 {
@@ -860,17 +830,17 @@ static int place_on_line(ctx *x, const pline *pl, double tw, double th,
     return nplaced;
 }
 
-static int marker_inside(const ctx *x, const sy_chart_marker *m)
+static int marker_inside(const syc_ctx *x, const sy_chart_marker *m)
 {
     return m->x_jd >= x->xmin && m->x_jd <= x->xmax && m->y >= x->ymin && m->y <= x->ymax;
 }
 
-static void place_markers(ctx *x)
+static void place_markers(syc_ctx *x, int labels)
 {
     const sy_chart *c = x->c;
     double r = 0.3 * x->fs_mark + 0.7;
     /* symbols first, so that no label covers any optimum */
-    for (size_t k = 0; k < c->nmarkers; k++) {
+    for (size_t k = 0; k < c->nmarkers && !labels; k++) {
         if (!marker_inside(x, &c->markers[k])) continue;   /* off the chart */
         sy_chart_box b = {0};
         x->cur_style = (int)k;
@@ -881,13 +851,13 @@ static void place_markers(ctx *x)
         snprintf(b.text, sizeof b.text, "%s", "marker");
         box_push(x, &b);
     }
-    for (size_t k = 0; k < c->nmarkers; k++) {
+    for (size_t k = 0; k < c->nmarkers && labels; k++) {
         if (!c->markers[k].label || !*c->markers[k].label || !marker_inside(x, &c->markers[k]))
             continue;
         x->cur_style = (int)k;
         double w, h;
-        PangoLayout *l = mk_layout(x, c->markers[k].label, x->fs_mark, 0, 0, 0, PANGO_ALIGN_LEFT);
-        layout_size(l, &w, &h);
+        PangoLayout *l = syc_layout(x, c->markers[k].label, x->fs_mark, 0, 0, 0, PANGO_ALIGN_LEFT);
+        syc_layout_size(l, &w, &h);
         g_object_unref(l);
         double pad = 0.3 * x->fs_mark;
         double hw = w / 2 + pad, hh = h / 2 + pad * 0.7;
@@ -924,14 +894,14 @@ static void place_markers(ctx *x)
     }
 }
 
-static void place_boundary(ctx *x)
+static void place_boundary(syc_ctx *x)
 {
     const sy_chart_boundary *bd = x->c->boundary;
     if (!bd || !bd->nlines) return;
     const char *t[2] = {bd->low_text, bd->high_text};
     double tw[2] = {0, 0}, th = 0;
     for (int s = 0; s < 2; s++)
-        if (t[s]) text_size(x, t[s], x->fs_label, 1, &tw[s], &th);
+        if (t[s]) syc_text_size(x, t[s], x->fs_label, 1, &tw[s], &th);
     if (!t[0] && !t[1]) return;
     double need = fmax(tw[0], tw[1]) + 0.8 * th;
     /* scan the longest boundary line for a straight stretch with room on
@@ -991,7 +961,7 @@ static void place_boundary(ctx *x)
 }
 
 /* TOF line (data coordinates) clipped to the plot, as a page pline. */
-static int tof_segment(ctx *x, double tof, double *seg)
+static int tof_segment(syc_ctx *x, double tof, double *seg)
 {
     if (x->c->yaxis == SY_CHART_Y_TOF) {
         if (tof < x->ymin || tof > x->ymax) return 0;
@@ -1016,15 +986,262 @@ static double set_step(const sy_chart_isolines *il)
     return isfinite(step) ? step : 0;
 }
 
-static void place_all(ctx *x)
+
+/* ------------------------------------------------------------------ */
+/* Highlighted paths (e.g. a launch period)                            */
+
+/* A cased line: a white halo, a dark warm casing and a gold core.  Gold
+ * (L* 78) between dark edges (L* 22) is unlike every other line on the
+ * chart in colour, weight and in grayscale alike, and gold stays gold
+ * for the common red-green deficiencies (it lies on the confusion lines'
+ * common yellow end). */
+static const syc_rgb COL_PATH_CORE = SYC_HEX(0xF2B600);
+static const syc_rgb COL_PATH_CASE = SYC_HEX(0x4A3200);
+#define PATH_HALO_W 5.4
+#define PATH_CASE_W 3.4
+#define PATH_CORE_W 1.9
+#define PATH_DOT_R 0.95
+#define PATH_END_R 2.1
+
+/* Stroke the current path as a path layer line; halo = 1 adds the white
+ * ground under it. */
+static void path_stroke(syc_ctx *x, int halo)
+{
+    cairo_t *cr = x->cr;
+    cairo_set_dash(cr, NULL, 0, 0);
+    cairo_set_line_join(cr, CAIRO_LINE_JOIN_ROUND);
+    cairo_set_line_cap(cr, CAIRO_LINE_CAP_ROUND);
+    if (halo) {
+        cairo_set_source_rgba(cr, 1, 1, 1, 0.85);
+        cairo_set_line_width(cr, PATH_HALO_W * x->lw);
+        cairo_stroke_preserve(cr);
+    }
+    cairo_set_source_rgb(cr, COL_PATH_CASE.r, COL_PATH_CASE.g, COL_PATH_CASE.b);
+    cairo_set_line_width(cr, PATH_CASE_W * x->lw);
+    cairo_stroke_preserve(cr);
+    cairo_set_source_rgb(cr, COL_PATH_CORE.r, COL_PATH_CORE.g, COL_PATH_CORE.b);
+    cairo_set_line_width(cr, PATH_CORE_W * x->lw);
+    cairo_stroke(cr);
+}
+
+/* An end dot: gold with a dark rim. */
+static void path_dot(syc_ctx *x, double cx, double cy, double r)
+{
+    cairo_t *cr = x->cr;
+    cairo_new_path(cr);
+    cairo_arc(cr, cx, cy, r, 0, 2 * M_PI);
+    cairo_set_source_rgb(cr, COL_PATH_CORE.r, COL_PATH_CORE.g, COL_PATH_CORE.b);
+    cairo_fill_preserve(cr);
+    cairo_set_source_rgb(cr, COL_PATH_CASE.r, COL_PATH_CASE.g, COL_PATH_CASE.b);
+    cairo_set_line_width(cr, 0.8 * x->lw);
+    cairo_set_dash(cr, NULL, 0, 0);
+    cairo_stroke(cr);
+}
+
+static int path_pt(const syc_ctx *x, const sy_chart_path *p, size_t k, double *px, double *py)
+{
+    if (!isfinite(p->x_jd[k]) || !isfinite(p->y[k])) return 0;
+    *px = X_of(x, p->x_jd[k]);
+    *py = Y_of(x, p->y[k]);
+    return 1;
+}
+
+static int inside_plot(const syc_ctx *x, double px, double py, double inset)
+{
+    return px >= x->px0 + inset && px <= x->px1 - inset && py >= x->py0 + inset &&
+           py <= x->py1 - inset;
+}
+
+/* Reserve the line itself (so that no later label sits under it), then
+ * place its label: tried beside points spread from the middle of the
+ * path outwards, in eight directions and growing rings, first spot that
+ * is clear wins (deterministic). */
+static void place_paths(syc_ctx *x, int labels)
+{
+    const sy_chart *c = x->c;
+    double half = 0.5 * PATH_HALO_W * x->lw;
+    for (size_t k = 0; k < c->npaths && !labels; k++) {
+        const sy_chart_path *p = &c->paths[k];
+        x->cur_style = (int)k;
+        for (size_t q = 0; q + 1 < p->n; q++) {
+            double ax, ay, bx, by;
+            if (!path_pt(x, p, q, &ax, &ay) || !path_pt(x, p, q + 1, &bx, &by)) continue;
+            sy_chart_box b = {0};
+            b.cx = 0.5 * (ax + bx);
+            b.cy = 0.5 * (ay + by);
+            b.half_w = 0.5 * hypot(bx - ax, by - ay) + half;
+            b.half_h = half;
+            b.angle_rad = atan2(by - ay, bx - ax);
+            if (b.angle_rad > M_PI / 2) b.angle_rad -= M_PI;
+            if (b.angle_rad <= -M_PI / 2) b.angle_rad += M_PI;
+            b.kind = SY_CHART_BOX_PATH;
+            snprintf(b.text, sizeof b.text, "%s", p->label ? p->label : "path");
+            double cn[4][2];
+            box_corners(&b, cn);
+            int in = 1;
+            for (int t = 0; t < 4; t++) in &= inside_plot(x, cn[t][0], cn[t][1], 0);
+            if (in) box_push(x, &b);
+        }
+    }
+    for (size_t k = 0; k < c->npaths && labels; k++) {
+        const sy_chart_path *p = &c->paths[k];
+        if (!p->label || !*p->label) continue;
+        x->cur_style = (int)k;
+        /* visible points */
+        size_t nv = 0;
+        for (size_t q = 0; q < p->n; q++) {
+            double px, py;
+            if (path_pt(x, p, q, &px, &py) && inside_plot(x, px, py, 0)) nv++;
+        }
+        if (!nv) continue;
+        double w, h;
+        PangoLayout *l = syc_layout(x, p->label, x->fs_mark, 1, 0, 0, PANGO_ALIGN_LEFT);
+        syc_layout_size(l, &w, &h);
+        g_object_unref(l);
+        double pad = 0.3 * x->fs_mark, stripe = 0.35 * x->fs_mark;
+        double hw = (w + stripe) / 2 + pad, hh = h / 2 + pad * 0.7;
+        double off = half + 0.3 * x->fs_mark;
+        static const double frac[] = {0.5, 0.38, 0.62, 0.25, 0.75, 0.12, 0.88, 0.0, 1.0};
+        static const double dir[8][2] = {{0, -1}, {0, 1}, {1, -1}, {-1, 1}, {-1, -1}, {1, 1}, {1, 0}, {-1, 0}};
+        sy_chart_box best = {0};
+        int found = 0;
+        for (int ring = 0; ring < 5 && !found; ring++) {
+            double o = off + ring * 1.1 * x->fs_mark;
+            for (size_t f = 0; f < sizeof frac / sizeof frac[0] && !found; f++) {
+                /* the visible point at this fraction */
+                size_t want = (size_t)lround(frac[f] * (double)(nv - 1)), seen = 0;
+                double mx = 0, my = 0;
+                for (size_t q = 0; q < p->n; q++) {
+                    double px, py;
+                    if (!path_pt(x, p, q, &px, &py) || !inside_plot(x, px, py, 0)) continue;
+                    if (seen++ == want) { mx = px; my = py; break; }
+                }
+                for (int d = 0; d < 8 && !found; d++) {
+                    sy_chart_box b = {0};
+                    b.cx = mx + dir[d][0] * (o + hw);
+                    b.cy = my + dir[d][1] * (o + hh);
+                    b.half_w = hw;
+                    b.half_h = hh;
+                    b.kind = SY_CHART_BOX_PATH_LABEL;
+                    snprintf(b.text, sizeof b.text, "%s", p->label);
+                    if (box_free_spot(x, &b, 1.0, 1.5)) { best = b; found = 1; }
+                }
+            }
+        }
+        if (!found) {
+            /* crowded: the top left corner of the plot, still inside */
+            best.half_w = hw;
+            best.half_h = hh;
+            best.cx = x->px0 + 1.5 + hw;
+            best.cy = x->py0 + 1.5 + hh;
+            best.kind = SY_CHART_BOX_PATH_LABEL;
+            snprintf(best.text, sizeof best.text, "%s", p->label);
+        }
+        box_push(x, &best);
+    }
+}
+
+static void draw_paths(syc_ctx *x)
+{
+    const sy_chart *c = x->c;
+    cairo_t *cr = x->cr;
+    cairo_save(cr);
+    cairo_rectangle(cr, x->px0, x->py0, x->px1 - x->px0, x->py1 - x->py0);
+    cairo_clip(cr);
+    for (size_t k = 0; k < c->npaths; k++) {
+        const sy_chart_path *p = &c->paths[k];
+        cairo_new_path(cr);
+        int pen = 0;
+        double sum = 0;
+        size_t nseg = 0;
+        for (size_t q = 0; q < p->n; q++) {
+            double px, py;
+            if (!path_pt(x, p, q, &px, &py)) { pen = 0; continue; }
+            if (pen) {
+                double cx0, cy0;
+                cairo_get_current_point(cr, &cx0, &cy0);
+                sum += hypot(px - cx0, py - cy0);
+                nseg++;
+                cairo_line_to(cr, px, py);
+            } else {
+                cairo_move_to(cr, px, py);
+                /* a lone point still shows as a round dab */
+                cairo_line_to(cr, px, py);
+            }
+            pen = 1;
+        }
+        path_stroke(x, 1);
+        /* dots at the points when they are far enough apart to read as
+         * separate days; always at the two ends */
+        double dr = PATH_DOT_R * x->lw;
+        if (nseg && sum / (double)nseg >= 4.5 * dr) {
+            cairo_set_source_rgb(cr, COL_PATH_CASE.r, COL_PATH_CASE.g, COL_PATH_CASE.b);
+            for (size_t q = 0; q < p->n; q++) {
+                double px, py;
+                if (!path_pt(x, p, q, &px, &py)) continue;
+                cairo_new_sub_path(cr);
+                cairo_arc(cr, px, py, dr, 0, 2 * M_PI);
+            }
+            cairo_fill(cr);
+        }
+        size_t first = p->n, last = p->n;
+        for (size_t q = 0; q < p->n; q++)
+            if (isfinite(p->x_jd[q]) && isfinite(p->y[q])) { if (first == p->n) first = q; last = q; }
+        if (first < p->n) {
+            double px, py;
+            path_pt(x, p, first, &px, &py);
+            path_dot(x, px, py, PATH_END_R * x->lw);
+            if (last != first) {
+                path_pt(x, p, last, &px, &py);
+                path_dot(x, px, py, PATH_END_R * x->lw);
+            }
+        }
+    }
+    cairo_restore(cr);
+}
+
+static void draw_path_labels(syc_ctx *x)
+{
+    cairo_t *cr = x->cr;
+    for (size_t k = 0; k < x->nboxes; k++) {
+        const sy_chart_box *b = &x->boxes[k];
+        if (b->kind != SY_CHART_BOX_PATH_LABEL) continue;
+        const sy_chart_path *p = &x->c->paths[x->styles[k]];
+        double stripe = 0.35 * x->fs_mark;
+        double l0 = b->cx - b->half_w, t0 = b->cy - b->half_h;
+        cairo_save(cr);
+        cairo_set_dash(cr, NULL, 0, 0);
+        cairo_rectangle(cr, l0, t0, 2 * b->half_w, 2 * b->half_h);
+        cairo_set_source_rgba(cr, 1, 1, 1, 0.92);
+        cairo_fill_preserve(cr);
+        cairo_set_source_rgb(cr, COL_PATH_CASE.r, COL_PATH_CASE.g, COL_PATH_CASE.b);
+        cairo_set_line_width(cr, 0.5 * x->lw);
+        cairo_stroke(cr);
+        /* the gold stripe ties the text to its line */
+        cairo_rectangle(cr, l0, t0, stripe, 2 * b->half_h);
+        cairo_set_source_rgb(cr, COL_PATH_CORE.r, COL_PATH_CORE.g, COL_PATH_CORE.b);
+        cairo_fill(cr);
+        cairo_restore(cr);
+        PangoLayout *l = syc_layout(x, p->label, x->fs_mark, 1, 0, 0, PANGO_ALIGN_LEFT);
+        syc_draw_layout(x, l, b->cx + stripe / 2, b->cy, 0.5, 0.5, 0, SYC_COL_TEXT);
+        g_object_unref(l);
+    }
+}
+
+static void place_all(syc_ctx *x)
 {
     const sy_chart *c = x->c;
     x->nboxes = 0;
-    place_markers(x);      /* style slot = marker index */
+    /* marker symbols, then the paths' lines, then the texts, so that no
+     * text covers an optimum or a path */
+    place_markers(x, 0);   /* style slot = marker index */
+    place_paths(x, 0);     /* style slot = path index */
+    place_markers(x, 1);
+    place_paths(x, 1);
     x->cur_style = 4;
     place_boundary(x);
     double th;
-    text_size(x, "0123456789", x->fs_label, 0, NULL, &th);
+    syc_text_size(x, "0123456789", x->fs_label, 0, NULL, &th);
     double spacing = 0.55 * ((x->px1 - x->px0) + (x->py1 - x->py0));
     for (int role = 0; role < 3; role++) {
         for (size_t k = 0; k < c->nisolines; k++) {
@@ -1037,7 +1254,7 @@ static void place_all(ctx *x)
                 char txt[32];
                 double tw;
                 sy_chart_format_level(il->sets[s].level, step, txt, sizeof txt);
-                text_size(x, txt, x->fs_label, 0, &tw, NULL);
+                syc_text_size(x, txt, x->fs_label, 0, &tw, NULL);
                 for (size_t q = 0; q < il->sets[s].nlines; q++) {
                     pline pl;
                     if (il->sets[s].lines[q].n < 2) continue;
@@ -1061,7 +1278,7 @@ static void place_all(ctx *x)
             sy_chart_format_level(c->tof->tof_days[k], 0.1, num, sizeof num);
             snprintf(txt, sizeof txt, "%s d", num);
             double tw;
-            text_size(x, txt, x->fs_label, 0, &tw, NULL);
+            syc_text_size(x, txt, x->fs_label, 0, &tw, NULL);
             place_on_line(x, &pl, tw, th, SY_CHART_BOX_TOF, txt, 1, spacing);
         }
     }
@@ -1070,7 +1287,7 @@ static void place_all(ctx *x)
 /* ------------------------------------------------------------------ */
 /* Drawing                                                             */
 
-static void path_polyline(ctx *x, const sy_polyline *pl)
+static void path_polyline(syc_ctx *x, const sy_polyline *pl)
 {
     if (pl->n < 2) return;
     cairo_move_to(x->cr, Xi(x, pl->xy[0]), Yj(x, pl->xy[1]));
@@ -1084,7 +1301,7 @@ static void path_polyline(ctx *x, const sy_polyline *pl)
  * midpoints; a saddle cell keeps its two masked corners connected).
  * Fully masked cells are merged into row runs.  Everything goes into one
  * path filled with the non-zero rule, so abutting pieces leave no seams. */
-static void path_mask(ctx *x, const unsigned char *mask)
+static void path_mask(syc_ctx *x, const unsigned char *mask)
 {
     const sy_chart *c = x->c;
     size_t nx = c->nx;
@@ -1133,7 +1350,7 @@ static void path_mask(ctx *x, const unsigned char *mask)
     }
 }
 
-static rgb ramp(double t)
+static syc_rgb ramp(double t)
 {
     if (t <= 0) return RAMP[0];
     if (t >= 1) return RAMP[6];
@@ -1141,13 +1358,13 @@ static rgb ramp(double t)
     int k = (int)f;
     if (k > 5) k = 5;
     f -= k;
-    rgb o = {RAMP[k].r + f * (RAMP[k + 1].r - RAMP[k].r),
+    syc_rgb o = {RAMP[k].r + f * (RAMP[k + 1].r - RAMP[k].r),
              RAMP[k].g + f * (RAMP[k + 1].g - RAMP[k].g),
              RAMP[k].b + f * (RAMP[k + 1].b - RAMP[k].b)};
     return o;
 }
 
-static rgb band_colour(const sy_chart_fill *f, size_t band)
+static syc_rgb band_colour(const sy_chart_fill *f, size_t band)
 {
     return ramp((double)band / (double)f->nlevels);   /* nlevels+1 bands */
 }
@@ -1162,7 +1379,7 @@ static size_t band_of(const sy_chart_fill *f, double z)
     return lo;
 }
 
-static int draw_fill(ctx *x, double px_per_pt)
+static int draw_fill(syc_ctx *x, double px_per_pt)
 {
     const sy_chart *c = x->c;
     const sy_chart_fill *f = c->fill;
@@ -1183,7 +1400,7 @@ static int draw_fill(ctx *x, double px_per_pt)
     uint32_t lut[64];
     size_t nb = f->nlevels + 1 < 64 ? f->nlevels + 1 : 64;
     for (size_t b = 0; b < nb; b++) {
-        rgb q = band_colour(f, b);
+        syc_rgb q = band_colour(f, b);
         lut[b] = 0xff000000u | (uint32_t)lround(q.r * 255) << 16 |
                  (uint32_t)lround(q.g * 255) << 8 | (uint32_t)lround(q.b * 255);
     }
@@ -1233,7 +1450,7 @@ static int draw_fill(ctx *x, double px_per_pt)
     return 1;
 }
 
-static void hatch(ctx *x, int idx, double x0, double y0, double x1, double y1, double sp)
+static void hatch(syc_ctx *x, int idx, double x0, double y0, double x1, double y1, double sp)
 {
     static const double angles[4] = {45, -45, 0, 90};
     double a = angles[idx & 3] * M_PI / 180.0;
@@ -1245,13 +1462,13 @@ static void hatch(ctx *x, int idx, double x0, double y0, double x1, double y1, d
     }
 }
 
-static void draw_regions(ctx *x)
+static void draw_regions(syc_ctx *x)
 {
     const sy_chart *c = x->c;
     cairo_t *cr = x->cr;
     for (size_t k = 0; k < c->nregions && k < 4; k++) {
         if (!c->regions[k].mask) continue;
-        rgb h = COL_HATCH[k];
+        syc_rgb h = COL_HATCH[k];
         cairo_save(cr);
         path_mask(x, c->regions[k].mask);
         cairo_clip(cr);
@@ -1274,7 +1491,7 @@ static void draw_regions(ctx *x)
     }
 }
 
-static void clip_labels(ctx *x)
+static void clip_labels(syc_ctx *x)
 {
     /* plot rectangle minus every label box (boxes do not overlap, so the
      * even-odd rule cuts each one out exactly once) */
@@ -1283,7 +1500,7 @@ static void clip_labels(ctx *x)
     cairo_rectangle(cr, x->px0, x->py0, x->px1 - x->px0, x->py1 - x->py0);
     for (size_t k = 0; k < x->nboxes; k++) {
         const sy_chart_box *b = &x->boxes[k];
-        if (b->kind == SY_CHART_BOX_MARKER) continue;
+        if (b->kind == SY_CHART_BOX_MARKER || b->kind == SY_CHART_BOX_PATH) continue;
         double cn[4][2];
         box_corners(b, cn);
         cairo_move_to(cr, cn[0][0], cn[0][1]);
@@ -1295,7 +1512,7 @@ static void clip_labels(ctx *x)
     cairo_set_fill_rule(cr, CAIRO_FILL_RULE_WINDING);
 }
 
-static void draw_lines(ctx *x)
+static void draw_lines(syc_ctx *x)
 {
     const sy_chart *c = x->c;
     cairo_t *cr = x->cr;
@@ -1308,7 +1525,7 @@ static void draw_lines(ctx *x)
             cairo_move_to(cr, seg[0], seg[1]);
             cairo_line_to(cr, seg[2], seg[3]);
         }
-        set_line_style(x, 3, 1.0);
+        syc_line_style(x, 3, 1.0);
         cairo_stroke(cr);
     }
     /* tertiary under secondary under primary */
@@ -1320,18 +1537,19 @@ static void draw_lines(ctx *x)
                 for (size_t q = 0; q < il->sets[s].nlines; q++)
                     path_polyline(x, &il->sets[s].lines[q]);
         }
-        set_line_style(x, role, 1.0);
+        syc_line_style(x, role, 1.0);
         cairo_stroke(cr);
     }
     if (c->boundary) {
         for (size_t k = 0; k < c->boundary->nlines; k++) path_polyline(x, &c->boundary->lines[k]);
-        set_line_style(x, 4, 1.0);
+        syc_line_style(x, 4, 1.0);
         cairo_stroke(cr);
     }
     cairo_restore(cr);
 }
 
-static void draw_symbol(ctx *x, sy_chart_symbol sym, double cx, double cy, double r)
+void syc_symbol(syc_ctx *x, sy_chart_symbol sym, double cx, double cy, double r,
+                syc_rgb fill)
 {
     cairo_t *cr = x->cr;
     cairo_new_path(cr);
@@ -1369,18 +1587,29 @@ static void draw_symbol(ctx *x, sy_chart_symbol sym, double cx, double cy, doubl
     cairo_set_source_rgb(cr, 1, 1, 1);
     cairo_set_line_width(cr, 1.6 * x->lw);
     cairo_stroke_preserve(cr);
-    cairo_set_source_rgb(cr, 0.05, 0.05, 0.05);
+    cairo_set_source_rgb(cr, fill.r, fill.g, fill.b);
     cairo_fill_preserve(cr);
+    /* a dark rim keeps light fills apart from a light ground */
+    cairo_set_source_rgb(cr, 0.6 * fill.r, 0.6 * fill.g, 0.6 * fill.b);
     cairo_set_line_width(cr, 0.5 * x->lw);
     cairo_stroke(cr);
 }
 
-static void draw_labels(ctx *x)
+static const syc_rgb COL_MARK = SYC_HEX(0x0D0D0D);
+
+static void draw_symbol(syc_ctx *x, sy_chart_symbol sym, double cx, double cy, double r)
+{
+    syc_symbol(x, sym, cx, cy, r, COL_MARK);
+}
+
+static void draw_labels(syc_ctx *x)
 {
     /* iso-line, TOF and boundary labels, each in its line's colour */
     for (size_t k = 0; k < x->nboxes; k++) {
         const sy_chart_box *b = &x->boxes[k];
-        if (b->kind == SY_CHART_BOX_MARKER || b->kind == SY_CHART_BOX_MARKER_LABEL) continue;
+        if (b->kind == SY_CHART_BOX_MARKER || b->kind == SY_CHART_BOX_MARKER_LABEL ||
+            b->kind == SY_CHART_BOX_PATH || b->kind == SY_CHART_BOX_PATH_LABEL)
+            continue;
         int bold = b->kind == SY_CHART_BOX_BOUNDARY;
         if (x->c->fill && x->c->fill->nlevels >= 2) {
             /* over colour bands the text needs a light ground */
@@ -1392,12 +1621,12 @@ static void draw_labels(ctx *x)
             cairo_set_source_rgba(x->cr, 1, 1, 1, 0.6);
             cairo_fill(x->cr);
         }
-        rgb col = b->kind == SY_CHART_BOX_TOF ? (rgb)HEX(0x5C5C5C) : style_colour(x->styles[k]);
-        draw_text(x, b->text, x->fs_label, bold, b->cx, b->cy, 0.5, 0.5, b->angle_rad, col);
+        syc_rgb col = b->kind == SY_CHART_BOX_TOF ? (syc_rgb)SYC_HEX(0x5C5C5C) : style_colour(x->styles[k]);
+        syc_draw_text(x, b->text, x->fs_label, bold, b->cx, b->cy, 0.5, 0.5, b->angle_rad, col);
     }
 }
 
-static void draw_marker_layer(ctx *x)
+static void draw_marker_layer(syc_ctx *x)
 {
     const sy_chart *c = x->c;
     cairo_t *cr = x->cr;
@@ -1419,18 +1648,18 @@ static void draw_marker_layer(ctx *x)
         cairo_set_dash(cr, NULL, 0, 0);
         cairo_stroke(cr);
         cairo_restore(cr);
-        PangoLayout *l = mk_layout(x, m->label, x->fs_mark, 0, 0, 0, PANGO_ALIGN_LEFT);
-        draw_layout(x, l, b->cx, b->cy, 0.5, 0.5, 0, COL_TEXT);
+        PangoLayout *l = syc_layout(x, m->label, x->fs_mark, 0, 0, 0, PANGO_ALIGN_LEFT);
+        syc_draw_layout(x, l, b->cx, b->cy, 0.5, 0.5, 0, SYC_COL_TEXT);
         g_object_unref(l);
     }
 }
 
-static void draw_axes(ctx *x)
+static void draw_axes(syc_ctx *x)
 {
     cairo_t *cr = x->cr;
     /* grid */
     cairo_save(cr);
-    cairo_set_source_rgb(cr, COL_GRID.r, COL_GRID.g, COL_GRID.b);
+    cairo_set_source_rgb(cr, SYC_COL_GRID.r, SYC_COL_GRID.g, SYC_COL_GRID.b);
     cairo_set_line_width(cr, 0.4 * x->lw);
     cairo_set_dash(cr, NULL, 0, 0);
     for (int k = 0; k < x->xt.n; k++) {
@@ -1447,14 +1676,14 @@ static void draw_axes(ctx *x)
     cairo_restore(cr);
 }
 
-static void draw_frame_and_ticks(ctx *x)
+static void draw_frame_and_ticks(syc_ctx *x)
 {
     const sy_chart *c = x->c;
     cairo_t *cr = x->cr;
     double base = x->fs_axis, tl = 0.35 * base;
     cairo_save(cr);
     cairo_set_dash(cr, NULL, 0, 0);
-    cairo_set_source_rgb(cr, COL_FRAME.r, COL_FRAME.g, COL_FRAME.b);
+    cairo_set_source_rgb(cr, SYC_COL_FRAME.r, SYC_COL_FRAME.g, SYC_COL_FRAME.b);
     cairo_set_line_width(cr, 0.7 * x->lw);
     cairo_rectangle(cr, x->px0, x->py0, x->px1 - x->px0, x->py1 - x->py0);
     cairo_stroke(cr);
@@ -1473,25 +1702,25 @@ static void draw_frame_and_ticks(ctx *x)
     cairo_restore(cr);
     for (int k = 0; k < x->xt.n; k++) {
         double px = X_of(x, x->xt.v[k]), w;
-        PangoLayout *l = mk_layout(x, x->xt.lab[k], x->fs_tick, 0, 0, 0, PANGO_ALIGN_CENTER);
-        layout_size(l, &w, NULL);
+        PangoLayout *l = syc_layout(x, x->xt.lab[k], x->fs_tick, 0, 0, 0, PANGO_ALIGN_CENTER);
+        syc_layout_size(l, &w, NULL);
         /* keep end labels on the page */
         if (px + w / 2 > x->W - 0.5 * x->m) px = x->W - 0.5 * x->m - w / 2;
-        draw_layout(x, l, px, x->xtick_top, 0.5, 0, 0, COL_TEXT);
+        syc_draw_layout(x, l, px, x->xtick_top, 0.5, 0, 0, SYC_COL_TEXT);
         g_object_unref(l);
     }
     for (int k = 0; k < x->yt.n; k++) {
         double py = Y_of(x, x->yt.v[k]);
-        draw_text(x, x->yt.lab[k], x->fs_tick, 0, x->px0 - tl - 0.2 * base, py, 1, 0.5, 0, COL_TEXT);
+        syc_draw_text(x, x->yt.lab[k], x->fs_tick, 0, x->px0 - tl - 0.2 * base, py, 1, 0.5, 0, SYC_COL_TEXT);
     }
     if (c->xtitle)
-        draw_text(x, c->xtitle, x->fs_axis, 0, 0.5 * (x->px0 + x->px1), x->xtitle_y, 0.5, 0, 0, COL_TEXT);
+        syc_draw_text(x, c->xtitle, x->fs_axis, 0, 0.5 * (x->px0 + x->px1), x->xtitle_y, 0.5, 0, 0, SYC_COL_TEXT);
     if (c->ytitle)
-        draw_text(x, c->ytitle, x->fs_axis, 0, x->ytitle_x, 0.5 * (x->py0 + x->py1), 0.5, 0,
-                  -M_PI / 2, COL_TEXT);
+        syc_draw_text(x, c->ytitle, x->fs_axis, 0, x->ytitle_x, 0.5 * (x->py0 + x->py1), 0.5, 0,
+                  -M_PI / 2, SYC_COL_TEXT);
 }
 
-static void draw_colour_bar(ctx *x)
+static void draw_colour_bar(syc_ctx *x)
 {
     const sy_chart_fill *f = x->c->fill;
     if (!f || f->nlevels < 2) return;
@@ -1505,13 +1734,13 @@ static void draw_colour_bar(ctx *x)
     cairo_save(cr);
     cairo_set_dash(cr, NULL, 0, 0);
     for (size_t b = 1; b < nl; b++) {
-        rgb q = band_colour(f, b);
+        syc_rgb q = band_colour(f, b);
         double y1 = bot - (double)(b - 1) * seg, y0 = bot - (double)b * seg;
         cairo_rectangle(cr, bx, y0, bw, y1 - y0 + 0.01);
         cairo_set_source_rgb(cr, q.r, q.g, q.b);
         cairo_fill(cr);
     }
-    rgb lo = band_colour(f, 0), hi = band_colour(f, nl);
+    syc_rgb lo = band_colour(f, 0), hi = band_colour(f, nl);
     cairo_move_to(cr, bx, bot);
     cairo_line_to(cr, bx + bw, bot);
     cairo_line_to(cr, bx + bw / 2, bot + ext);
@@ -1532,13 +1761,13 @@ static void draw_colour_bar(ctx *x)
     cairo_line_to(cr, bx + bw / 2, top - ext);
     cairo_line_to(cr, bx, top);
     cairo_close_path(cr);
-    cairo_set_source_rgb(cr, COL_FRAME.r, COL_FRAME.g, COL_FRAME.b);
+    cairo_set_source_rgb(cr, SYC_COL_FRAME.r, SYC_COL_FRAME.g, SYC_COL_FRAME.b);
     cairo_set_line_width(cr, 0.5 * x->lw);
     cairo_stroke(cr);
     cairo_restore(cr);
     /* tick labels, thinned when crowded */
     double lh;
-    text_size(x, "0", x->fs_tick, 0, NULL, &lh);
+    syc_text_size(x, "0", x->fs_tick, 0, NULL, &lh);
     size_t every = 1;
     while (seg * (double)every < 1.15 * lh) every++;
     double step = (f->levels[nl - 1] - f->levels[0]) / (double)(nl - 1);
@@ -1548,23 +1777,23 @@ static void draw_colour_bar(ctx *x)
         double py = bot - (double)k * seg;
         cairo_move_to(cr, bx + bw, py);
         cairo_line_to(cr, bx + bw + tl, py);
-        cairo_set_source_rgb(cr, COL_FRAME.r, COL_FRAME.g, COL_FRAME.b);
+        cairo_set_source_rgb(cr, SYC_COL_FRAME.r, SYC_COL_FRAME.g, SYC_COL_FRAME.b);
         cairo_set_line_width(cr, 0.5 * x->lw);
         cairo_stroke(cr);
-        draw_text(x, b, x->fs_tick, 0, bx + bw + tl + 0.2 * base, py, 0, 0.5, 0, COL_TEXT);
+        syc_draw_text(x, b, x->fs_tick, 0, bx + bw + tl + 0.2 * base, py, 0, 0.5, 0, SYC_COL_TEXT);
     }
     if (f->title)
-        draw_text(x, f->title, x->fs_axis, 0, x->W - x->m, 0.5 * (x->py0 + x->py1), 0.5, 0,
-                  M_PI / 2, COL_TEXT);
+        syc_draw_text(x, f->title, x->fs_axis, 0, x->W - x->m, 0.5 * (x->py0 + x->py1), 0.5, 0,
+                  M_PI / 2, SYC_COL_TEXT);
 }
 
-static void draw_legend(ctx *x)
+void syc_draw_legend(syc_ctx *x)
 {
     if (!x->nleg) return;
     cairo_t *cr = x->cr;
     double fs = x->fs_leg, sw = 2.4 * fs, gap = 0.45 * fs;
     double th;
-    text_size(x, "Ag", fs, 0, NULL, &th);
+    syc_text_size(x, "Ag", fs, 0, NULL, &th);
     cairo_save(cr);
     cairo_rectangle(cr, x->leg_x, x->leg_y, x->leg_w, x->leg_h);
     cairo_set_source_rgb(cr, 0.985, 0.985, 0.985);
@@ -1574,18 +1803,18 @@ static void draw_legend(ctx *x)
     cairo_stroke(cr);
     cairo_restore(cr);
     for (int k = 0; k < x->nleg; k++) {
-        const leg_entry *e = &x->leg[k];
+        const syc_leg_entry *e = &x->leg[k];
         double ex = x->leg_x + e->x, ey = x->leg_y + e->y, cy = ey + th / 2;
         cairo_save(cr);
         switch (e->kind) {
-        case LEG_LINE:
+        case SYC_LEG_LINE:
             cairo_move_to(cr, ex, cy);
             cairo_line_to(cr, ex + sw, cy);
-            set_line_style(x, e->style, 1.0);
+            syc_line_style(x, e->style, 1.0);
             cairo_stroke(cr);
             break;
-        case LEG_REGION: {
-            rgb h = COL_HATCH[e->style & 3];
+        case SYC_LEG_REGION: {
+            syc_rgb h = COL_HATCH[e->style & 3];
             double s = 0.75 * th;
             cairo_rectangle(cr, ex + sw / 2 - s, cy - s / 2, 2 * s, s);
             cairo_clip_preserve(cr);
@@ -1603,60 +1832,84 @@ static void draw_legend(ctx *x)
             cairo_stroke(cr);
             break;
         }
-        case LEG_NOSOL: {
+        case SYC_LEG_NOSOL: {
             double s = 0.75 * th;
             cairo_rectangle(cr, ex + sw / 2 - s, cy - s / 2, 2 * s, s);
             cairo_set_source_rgb(cr, COL_NOSOL.r, COL_NOSOL.g, COL_NOSOL.b);
             cairo_fill(cr);
             break;
         }
-        case LEG_MARKER:
+        case SYC_LEG_MARKER:
             draw_symbol(x, (sy_chart_symbol)e->style, ex + sw / 2, cy, 0.3 * x->fs_mark + 0.7);
             break;
+        case SYC_LEG_PATH:
+            cairo_move_to(cr, ex + 0.1 * sw, cy);
+            cairo_line_to(cr, ex + 0.9 * sw, cy);
+            path_stroke(x, 0);
+            path_dot(x, ex + sw / 2, cy, PATH_END_R * x->lw);
+            break;
+        case SYC_LEG_SERIES: {
+            int role = (e->style >> 4) % 3, sym = (e->style >> 1) & 7, conn = e->style & 1;
+            if (conn) {
+                cairo_move_to(cr, ex, cy);
+                cairo_line_to(cr, ex + sw, cy);
+                syc_line_style(x, role, SYC_XY_LINE_SCALE);
+                cairo_stroke(cr);
+            }
+            syc_symbol(x, (sy_chart_symbol)sym, ex + sw / 2, cy, SYC_XY_MARK_R(x), SYC_COL_ROLE[role]);
+            break;
+        }
         }
         cairo_restore(cr);
-        draw_text(x, e->text, fs, 0, ex + sw + gap, ey, 0, 0, 0, COL_TEXT);
+        syc_draw_text(x, e->text, fs, 0, ex + sw + gap, ey, 0, 0, 0, SYC_COL_TEXT);
     }
 }
 
-static void draw_titles_footer(ctx *x)
+void syc_draw_head_foot(syc_ctx *x, const char *title, const char *subtitle,
+                        const char *const *footer, size_t nfooter)
 {
-    const sy_chart *c = x->c;
     double full_w = x->W - 2 * x->m;
-    if (c->title && *c->title) {
-        PangoLayout *l = mk_layout(x, c->title, x->fs_title, 1, 0, full_w, PANGO_ALIGN_LEFT);
-        draw_layout(x, l, x->m, x->title_y, 0, 0, 0, COL_TEXT);
+    if (title && *title) {
+        PangoLayout *l = syc_layout(x, title, x->fs_title, 1, 0, full_w, PANGO_ALIGN_LEFT);
+        syc_draw_layout(x, l, x->m, x->title_y, 0, 0, 0, SYC_COL_TEXT);
         g_object_unref(l);
     }
-    if (c->subtitle && *c->subtitle) {
-        PangoLayout *l = mk_layout(x, c->subtitle, x->fs_sub, 0, 0, full_w, PANGO_ALIGN_LEFT);
-        draw_layout(x, l, x->m, x->sub_y, 0, 0, 0, COL_FOOT);
+    if (subtitle && *subtitle) {
+        PangoLayout *l = syc_layout(x, subtitle, x->fs_sub, 0, 0, full_w, PANGO_ALIGN_LEFT);
+        syc_draw_layout(x, l, x->m, x->sub_y, 0, 0, 0, SYC_COL_FOOT);
         g_object_unref(l);
     }
     double y = x->foot_y;
-    if (c->nfooter) {
+    if (nfooter) {
         cairo_save(x->cr);
         cairo_move_to(x->cr, x->m, y - 0.25 * x->fs_axis);
         cairo_line_to(x->cr, x->W - x->m, y - 0.25 * x->fs_axis);
         cairo_set_source_rgb(x->cr, 0.75, 0.75, 0.75);
         cairo_set_line_width(x->cr, 0.4 * x->lw);
+        cairo_set_dash(x->cr, NULL, 0, 0);
         cairo_stroke(x->cr);
         cairo_restore(x->cr);
     }
-    for (size_t k = 0; k < c->nfooter; k++) {
+    for (size_t k = 0; k < nfooter; k++) {
         double h;
-        PangoLayout *l = mk_layout(x, c->footer[k], x->fs_foot, 0, 0, full_w, PANGO_ALIGN_LEFT);
-        layout_size(l, NULL, &h);
-        draw_layout(x, l, x->m, y, 0, 0, 0, COL_FOOT);
+        PangoLayout *l = syc_layout(x, footer[k], x->fs_foot, 0, 0, full_w, PANGO_ALIGN_LEFT);
+        syc_layout_size(l, NULL, &h);
+        syc_draw_layout(x, l, x->m, y, 0, 0, 0, SYC_COL_FOOT);
         g_object_unref(l);
         y += h;
     }
 }
 
+static void draw_titles_footer(syc_ctx *x)
+{
+    const sy_chart *c = x->c;
+    syc_draw_head_foot(x, c->title, c->subtitle, c->footer, c->nfooter);
+}
+
 /* ------------------------------------------------------------------ */
 /* Validation, rendering, back ends                                    */
 
-static sy_status validate(const sy_chart *c, const sy_chart_page *pg, sy_error *err)
+sy_status syc_chart_validate(const sy_chart *c, const sy_chart_page *pg, sy_error *err)
 {
     if (!c || !pg) return sy_fail(err, SY_ERR_ARG, "chart: no chart or page given");
     if (c->nx < 2 || c->ny < 2)
@@ -1688,6 +1941,11 @@ static sy_status validate(const sy_chart *c, const sy_chart_page *pg, sy_error *
     for (size_t k = 0; k < c->nmarkers; k++)
         if (!isfinite(c->markers[k].x_jd) || !isfinite(c->markers[k].y))
             return sy_fail(err, SY_ERR_ARG, "chart: marker %zu has a non-finite position", k);
+    if (c->npaths && !c->paths) return sy_fail(err, SY_ERR_ARG, "chart: npaths > 0 but paths is NULL");
+    for (size_t k = 0; k < c->npaths; k++)
+        if (c->paths[k].n && (!c->paths[k].x_jd || !c->paths[k].y))
+            return sy_fail(err, SY_ERR_ARG, "chart: paths[%zu] has n = %zu but x_jd or y is NULL", k,
+                           c->paths[k].n);
     if (c->tof && c->tof->n && !c->tof->tof_days) return sy_fail(err, SY_ERR_ARG, "chart: tof lines without values");
     if (c->boundary && c->boundary->nlines && !c->boundary->lines)
         return sy_fail(err, SY_ERR_ARG, "chart: boundary nlines > 0 but lines is NULL");
@@ -1705,8 +1963,13 @@ static sy_status validate(const sy_chart *c, const sy_chart_page *pg, sy_error *
     return SY_OK;
 }
 
-static PangoContext *make_pango(cairo_t *cr)
+/* Set once any text has been laid out: only then do pango's font map and
+ * fontconfig exist to be released (see sy_chart_release_caches). */
+static volatile int fonts_in_use;
+
+PangoContext *syc_make_pango(cairo_t *cr)
 {
+    fonts_in_use = 1;
     PangoContext *pc = pango_cairo_create_context(cr);
     if (!pc) return NULL;
     /* No hinting and unrounded glyph positions: metrics then scale
@@ -1723,10 +1986,10 @@ static PangoContext *make_pango(cairo_t *cr)
 }
 
 /* Lay out and (when draw != 0) draw on cr, whose user space is points. */
-static sy_status render(ctx *x, cairo_t *cr, double px_per_pt, int draw, sy_error *err)
+static sy_status render(syc_ctx *x, cairo_t *cr, double px_per_pt, int draw, sy_error *err)
 {
     x->cr = cr;
-    x->pc = make_pango(cr);
+    x->pc = syc_make_pango(cr);
     if (!x->pc) return sy_fail(err, SY_ERR_NOMEM, "chart: cannot create a text context");
     do_layout(x);
     place_all(x);
@@ -1740,10 +2003,12 @@ static sy_status render(ctx *x, cairo_t *cr, double px_per_pt, int draw, sy_erro
         draw_axes(x);
         draw_lines(x);
         draw_labels(x);
+        draw_paths(x);
         draw_marker_layer(x);
+        draw_path_labels(x);
         draw_frame_and_ticks(x);
         draw_colour_bar(x);
-        draw_legend(x);
+        syc_draw_legend(x);
         draw_titles_footer(x);
         cairo_status_t cs = cairo_status(cr);
         if (cs != CAIRO_STATUS_SUCCESS)
@@ -1753,7 +2018,7 @@ static sy_status render(ctx *x, cairo_t *cr, double px_per_pt, int draw, sy_erro
     return SY_OK;
 }
 
-static void ctx_free(ctx *x)
+void syc_ctx_free(syc_ctx *x)
 {
     if (x->pc) g_object_unref(x->pc);
     free(x->boxes);
@@ -1774,34 +2039,42 @@ static const char *page_text(const sy_chart_page *pg, const char *key)
 /* A plain-text account of the chart for the SVG <desc>: cairo draws pango
  * text as glyph outlines, so without this an SVG would hold none of its
  * words for search engines, screen readers or tests. */
-static void describe(const ctx *x, membuf *m)
+static void describe(const syc_ctx *x, syc_membuf *m)
 {
     const sy_chart *c = x->c;
     const char *parts[3] = {c->subtitle, c->xtitle, c->ytitle};
     for (int k = 0; k < 3; k++)
-        if (parts[k] && *parts[k]) { mb_put_xml(m, parts[k]); mb_puts(m, "\n"); }
+        if (parts[k] && *parts[k]) { syc_mb_put_xml(m, parts[k]); syc_mb_puts(m, "\n"); }
     for (int k = 0; k < x->nleg; k++) {
-        mb_puts(m, "Legend: ");
-        mb_put_xml(m, x->leg[k].text);
-        mb_puts(m, "\n");
+        syc_mb_puts(m, "Legend: ");
+        syc_mb_put_xml(m, x->leg[k].text);
+        syc_mb_puts(m, "\n");
     }
     static const char *kind[] = {"Level", "Time of flight", "Boundary side", "Marker", "Marker"};
     for (size_t k = 0; k < x->nboxes; k++) {
         const sy_chart_box *b = &x->boxes[k];
-        if (b->kind == SY_CHART_BOX_MARKER || b->kind == SY_CHART_BOX_MARKER_LABEL) continue;
-        mb_puts(m, kind[b->kind]);
-        mb_puts(m, ": ");
-        mb_put_xml(m, b->text);
-        mb_puts(m, "\n");
+        if (b->kind == SY_CHART_BOX_MARKER || b->kind == SY_CHART_BOX_MARKER_LABEL ||
+            b->kind == SY_CHART_BOX_PATH || b->kind == SY_CHART_BOX_PATH_LABEL)
+            continue;
+        syc_mb_puts(m, kind[b->kind]);
+        syc_mb_puts(m, ": ");
+        syc_mb_put_xml(m, b->text);
+        syc_mb_puts(m, "\n");
     }
     for (size_t k = 0; k < c->nmarkers; k++)
         if (c->markers[k].label) {
             /* full text (box texts are truncated to 63 bytes) */
-            mb_puts(m, "Marked: ");
-            mb_put_xml(m, c->markers[k].label);
-            mb_puts(m, "\n");
+            syc_mb_puts(m, "Marked: ");
+            syc_mb_put_xml(m, c->markers[k].label);
+            syc_mb_puts(m, "\n");
         }
-    for (size_t k = 0; k < c->nfooter; k++) { mb_put_xml(m, c->footer[k]); mb_puts(m, "\n"); }
+    for (size_t k = 0; k < c->npaths; k++)
+        if (c->paths[k].label) {
+            syc_mb_puts(m, "Path: ");
+            syc_mb_put_xml(m, c->paths[k].label);
+            syc_mb_puts(m, "\n");
+        }
+    for (size_t k = 0; k < c->nfooter; k++) { syc_mb_put_xml(m, c->footer[k]); syc_mb_puts(m, "\n"); }
 }
 
 /* cairo numbers its SVG element ids (surfaceN, patternN, imageN, clipN,
@@ -1813,7 +2086,7 @@ typedef struct { char name[40]; char repl[40]; } idmap;
 
 static int id_char(char ch) { return (ch >= 'a' && ch <= 'z') || (ch >= 'A' && ch <= 'Z') || ch == '-'; }
 
-static int normalise_svg_ids(const char *in, size_t n, membuf *out)
+static int normalise_svg_ids(const char *in, size_t n, syc_membuf *out)
 {
     size_t cap = 256, nm = 0;
     idmap *map = malloc(cap * sizeof *map);
@@ -1858,15 +2131,15 @@ static int normalise_svg_ids(const char *in, size_t n, membuf *out)
         const char *a = strstr(p, "id=\""), *b = strchr(p, '#');
         if (a && (!b || a < b)) { hit = a; skip = 4; }
         else if (b) { hit = b; skip = 1; }
-        if (!hit) { mb_put(out, p, (size_t)(end - p)); break; }
-        mb_put(out, p, (size_t)(hit - p) + skip);
+        if (!hit) { syc_mb_put(out, p, (size_t)(end - p)); break; }
+        syc_mb_put(out, p, (size_t)(hit - p) + skip);
         const char *q = hit + skip;
         size_t len = 0;
         while (q + len < end && (id_char(q[len]) || (q[len] >= '0' && q[len] <= '9'))) len++;
         const char *r = NULL;
         for (size_t k = 0; k < nm && len; k++)
             if (strlen(map[k].name) == len && !strncmp(map[k].name, q, len)) { r = map[k].repl; break; }
-        if (r) { mb_puts(out, r); p = q + len; }
+        if (r) { syc_mb_puts(out, r); p = q + len; }
         else p = q;
     }
     free(map);
@@ -1875,25 +2148,21 @@ static int normalise_svg_ids(const char *in, size_t n, membuf *out)
 
 static cairo_status_t mem_write(void *closure, const unsigned char *data, unsigned int len)
 {
-    membuf *m = closure;
-    mb_put(m, data, len);
+    syc_membuf *m = closure;
+    syc_mb_put(m, data, len);
     return m->oom ? CAIRO_STATUS_NO_MEMORY : CAIRO_STATUS_SUCCESS;
 }
 
-typedef struct {
-    FILE *fp;
-    int err;                      /* errno of the first failed write */
-} file_sink;
 
-static cairo_status_t file_write(void *closure, const unsigned char *data, unsigned int len)
+cairo_status_t syc_file_write(void *closure, const unsigned char *data, unsigned int len)
 {
-    file_sink *fs = closure;
+    syc_file_sink *fs = closure;
     if (fwrite(data, 1, len, fs->fp) == len) return CAIRO_STATUS_SUCCESS;
     if (!fs->err) fs->err = errno ? errno : EIO;
     return CAIRO_STATUS_WRITE_ERROR;
 }
 
-static sy_status surface_status(cairo_surface_t *s, const char *path, int write_errno,
+sy_status syc_surface_status(cairo_surface_t *s, const char *path, int write_errno,
                                 sy_error *err)
 {
     cairo_status_t cs = cairo_surface_status(s);
@@ -1905,20 +2174,20 @@ static sy_status surface_status(cairo_surface_t *s, const char *path, int write_
     return sy_fail(err, SY_ERR_IO, "cannot render %s: %s", path, cairo_status_to_string(cs));
 }
 
-static sy_status write_png(ctx *x, FILE *fp, const char *path, sy_error *err)
+static sy_status write_png(const syc_job *job, FILE *fp, const char *path, sy_error *err)
 {
-    const sy_chart_page *pg = x->pg;
+    const sy_chart_page *pg = job->pg;
     if (!(pg->dpi >= 10 && pg->dpi <= 2400))
         return sy_fail(err, SY_ERR_ARG, "%s: dpi %.6g is outside 10..2400", path, pg->dpi);
     int w = (int)lround(pg->width_in * pg->dpi), h = (int)lround(pg->height_in * pg->dpi);
     if ((double)w * h > 400e6)
         return sy_fail(err, SY_ERR_ARG, "%s: %d x %d pixels is too large; lower the dpi", path, w, h);
     cairo_surface_t *s = cairo_image_surface_create(CAIRO_FORMAT_ARGB32, w, h);
-    sy_status st = surface_status(s, path, 0, err);
+    sy_status st = syc_surface_status(s, path, 0, err);
     if (st != SY_OK) { cairo_surface_destroy(s); return st; }
     cairo_t *cr = cairo_create(s);
     cairo_scale(cr, w / (pg->width_in * 72.0), h / (pg->height_in * 72.0));
-    st = render(x, cr, pg->dpi / 72.0, 1, err);
+    st = job->draw(job->ud, cr, pg->dpi / 72.0, err);
     cairo_destroy(cr);
     if (st == SY_OK) {
         cairo_surface_flush(s);
@@ -1930,16 +2199,9 @@ static sy_status write_png(ctx *x, FILE *fp, const char *path, sy_error *err)
     return st;
 }
 
-static sy_status write_pdf(ctx *x, FILE *fp, const char *path, sy_error *err)
+void syc_pdf_metadata(cairo_surface_t *s, const char *title, const char *creator,
+                      const char *subject)
 {
-    const sy_chart_page *pg = x->pg;
-    file_sink sink = {fp, 0};
-    cairo_surface_t *s = cairo_pdf_surface_create_for_stream(file_write, &sink, x->W, x->H);
-    sy_status st = surface_status(s, path, 0, err);
-    if (st != SY_OK) { cairo_surface_destroy(s); return st; }
-    const char *title = page_text(pg, "Title");
-    if (!title) title = x->c->title;
-    const char *creator = page_text(pg, "Software");
     if (title) cairo_pdf_surface_set_metadata(s, CAIRO_PDF_METADATA_TITLE, title);
     cairo_pdf_surface_set_metadata(s, CAIRO_PDF_METADATA_CREATOR,
                                    creator ? creator : "synodic " PACKAGE_VERSION);
@@ -1962,32 +2224,46 @@ static sy_status write_pdf(ctx *x, FILE *fp, const char *path, sy_error *err)
         }
     }
     cairo_pdf_surface_set_metadata(s, CAIRO_PDF_METADATA_CREATE_DATE, datebuf);
-    const char *subject = page_text(pg, "Comment");
     if (subject) cairo_pdf_surface_set_metadata(s, CAIRO_PDF_METADATA_SUBJECT, subject);
+}
+
+static sy_status write_pdf(const syc_job *job, FILE *fp, const char *path, sy_error *err)
+{
+    const sy_chart_page *pg = job->pg;
+    syc_file_sink sink = {fp, 0};
+    cairo_surface_t *s = cairo_pdf_surface_create_for_stream(syc_file_write, &sink,
+                                                             pg->width_in * 72.0,
+                                                             pg->height_in * 72.0);
+    sy_status st = syc_surface_status(s, path, 0, err);
+    if (st != SY_OK) { cairo_surface_destroy(s); return st; }
+    const char *title = page_text(pg, "Title");
+    syc_pdf_metadata(s, title ? title : job->title, page_text(pg, "Software"),
+                     page_text(pg, "Comment"));
     cairo_t *cr = cairo_create(s);
-    st = render(x, cr, 2.0, 1, err);
+    st = job->draw(job->ud, cr, 2.0, err);
     cairo_show_page(cr);
     cairo_destroy(cr);
     cairo_surface_finish(s);
-    if (st == SY_OK) st = surface_status(s, path, sink.err, err);
+    if (st == SY_OK) st = syc_surface_status(s, path, sink.err, err);
     cairo_surface_destroy(s);
     return st;
 }
 
-static sy_status write_svg(ctx *x, FILE *fp, const char *path, sy_error *err)
+static sy_status write_svg(const syc_job *job, FILE *fp, const char *path, sy_error *err)
 {
-    const sy_chart_page *pg = x->pg;
-    membuf raw = {0}, out = {0};
-    cairo_surface_t *s = cairo_svg_surface_create_for_stream(mem_write, &raw, x->W, x->H);
-    sy_status st = surface_status(s, path, 0, err);
+    const sy_chart_page *pg = job->pg;
+    syc_membuf raw = {0}, out = {0};
+    cairo_surface_t *s = cairo_svg_surface_create_for_stream(mem_write, &raw, pg->width_in * 72.0,
+                                                             pg->height_in * 72.0);
+    sy_status st = syc_surface_status(s, path, 0, err);
     if (st == SY_OK) {
         cairo_svg_surface_restrict_to_version(s, CAIRO_SVG_VERSION_1_1);
         cairo_t *cr = cairo_create(s);
-        st = render(x, cr, 2.0, 1, err);
+        st = job->draw(job->ud, cr, 2.0, err);
         cairo_show_page(cr);
         cairo_destroy(cr);
         cairo_surface_finish(s);
-        if (st == SY_OK) st = surface_status(s, path, 0, err);
+        if (st == SY_OK) st = syc_surface_status(s, path, 0, err);
     }
     cairo_surface_destroy(s);
     if (st == SY_OK && (raw.oom || !raw.p)) st = sy_fail(err, SY_ERR_NOMEM, "cannot render %s: out of memory", path);
@@ -2000,14 +2276,14 @@ static sy_status write_svg(ctx *x, FILE *fp, const char *path, sy_error *err)
         if (!gt) {
             st = sy_fail(err, SY_ERR_IO, "cannot render %s: cairo produced no <svg> element", path);
         } else {
-            membuf meta = {0};
+            syc_membuf meta = {0};
             const char *title = page_text(pg, "Title");
-            if (!title) title = x->c->title;
-            mb_puts(&meta, "\n<title>");
-            mb_put_xml(&meta, title ? title : "synodic chart");
-            mb_puts(&meta, "</title>\n<desc>");
-            describe(x, &meta);
-            mb_puts(&meta, "</desc>");
+            if (!title) title = job->title;
+            syc_mb_puts(&meta, "\n<title>");
+            syc_mb_put_xml(&meta, title ? title : "synodic chart");
+            syc_mb_puts(&meta, "</title>\n<desc>");
+            if (job->describe) job->describe(job->ud, &meta);
+            syc_mb_puts(&meta, "</desc>");
             size_t head = (size_t)(gt + 1 - out.p);
             if (meta.oom) {
                 st = sy_fail(err, SY_ERR_NOMEM, "cannot render %s: out of memory", path);
@@ -2024,31 +2300,22 @@ static sy_status write_svg(ctx *x, FILE *fp, const char *path, sy_error *err)
     return st;
 }
 
-sy_status sy_chart_write(const sy_chart *chart, const sy_chart_page *page,
-                         const char *path, sy_error *err)
+sy_status syc_write_job(const syc_job *job, sy_chart_format fmt, const char *path,
+                        sy_error *err)
 {
-    sy_status st = validate(chart, page, err);
-    if (st != SY_OK) return st;
     if (!path || !*path) return sy_fail(err, SY_ERR_ARG, "chart: no output path given");
-    sy_chart_format fmt = page->format != SY_CHART_FMT_AUTO ? page->format : sy_chart_format_from_path(path);
+    if (fmt == SY_CHART_FMT_AUTO) fmt = sy_chart_format_from_path(path);
     if (fmt == SY_CHART_FMT_AUTO)
         return sy_fail(err, SY_ERR_ARG,
                        "cannot tell the chart format of %s: name it .png, .svg or .pdf or set the format",
                        path);
     sy_outfile of;
-    st = (sy_status)sy_outfile_open(&of, path, err);
+    sy_status st = (sy_status)sy_outfile_open(&of, path, err);
     if (st != SY_OK) return st;
-    ctx x;
-    memset(&x, 0, sizeof x);
-    x.c = chart;
-    x.pg = page;
-    x.W = page->width_in * 72.0;
-    x.H = page->height_in * 72.0;
     errno = 0;
-    if (fmt == SY_CHART_FMT_PNG) st = write_png(&x, of.fp, path, err);
-    else if (fmt == SY_CHART_FMT_PDF) st = write_pdf(&x, of.fp, path, err);
-    else st = write_svg(&x, of.fp, path, err);
-    ctx_free(&x);
+    if (fmt == SY_CHART_FMT_PNG) st = write_png(job, of.fp, path, err);
+    else if (fmt == SY_CHART_FMT_PDF) st = write_pdf(job, of.fp, path, err);
+    else st = write_svg(job, of.fp, path, err);
     if (st != SY_OK) {
         sy_outfile_abort(&of);
         return st;
@@ -2056,15 +2323,58 @@ sy_status sy_chart_write(const sy_chart *chart, const sy_chart_page *page,
     return (sy_status)sy_outfile_commit(&of, err);
 }
 
+/* Job callbacks for a porkchop chart: ud is its syc_ctx. */
+static sy_status chart_job_draw(void *ud, cairo_t *cr, double px_per_pt, sy_error *err)
+{
+    return render(ud, cr, px_per_pt, 1, err);
+}
+
+static void chart_job_describe(void *ud, syc_membuf *m) { describe(ud, m); }
+
+sy_status sy_chart_write(const sy_chart *chart, const sy_chart_page *page,
+                         const char *path, sy_error *err)
+{
+    sy_status st = syc_chart_validate(chart, page, err);
+    if (st != SY_OK) return st;
+    syc_ctx x;
+    memset(&x, 0, sizeof x);
+    x.c = chart;
+    x.pg = page;
+    syc_job job = {page, chart->title, chart_job_draw, chart_job_describe, &x};
+    st = syc_write_job(&job, page->format, path, err);
+    syc_ctx_free(&x);
+    return st;
+}
+
+sy_status syc_chart_draw(const sy_chart *c, double width_in, double height_in, cairo_t *cr,
+                         double px_per_pt, sy_error *err)
+{
+    sy_chart_page pg;
+    sy_chart_page_init(&pg);
+    pg.width_in = width_in;
+    pg.height_in = height_in;
+    sy_status st = syc_chart_validate(c, &pg, err);
+    if (st != SY_OK) return st;
+    syc_ctx x;
+    memset(&x, 0, sizeof x);
+    x.c = c;
+    x.pg = &pg;
+    cairo_save(cr);
+    st = render(&x, cr, px_per_pt, 1, err);
+    cairo_restore(cr);
+    syc_ctx_free(&x);
+    return st;
+}
+
 sy_status sy_chart_layout_boxes(const sy_chart *chart, const sy_chart_page *page,
                                 sy_chart_box *boxes, size_t max, size_t *nboxes,
                                 double plot_rect[4], sy_error *err)
 {
-    sy_status st = validate(chart, page, err);
+    sy_status st = syc_chart_validate(chart, page, err);
     if (st != SY_OK) return st;
     cairo_surface_t *s = cairo_image_surface_create(CAIRO_FORMAT_ARGB32, 1, 1);
     cairo_t *cr = cairo_create(s);
-    ctx x;
+    syc_ctx x;
     memset(&x, 0, sizeof x);
     x.c = chart;
     x.pg = page;
@@ -2079,7 +2389,7 @@ sy_status sy_chart_layout_boxes(const sy_chart *chart, const sy_chart_page *page
             plot_rect[3] = x.py1;
         }
     }
-    ctx_free(&x);
+    syc_ctx_free(&x);
     cairo_destroy(cr);
     cairo_surface_destroy(s);
     return st;
@@ -2087,7 +2397,27 @@ sy_status sy_chart_layout_boxes(const sy_chart *chart, const sy_chart_page *page
 
 void sy_chart_release_caches(void)
 {
+    /* Asking pango for its default font map creates one (and starts its
+     * fontconfig worker thread), which FcFini would then race: release
+     * nothing unless text was actually drawn. */
+    if (!fonts_in_use) return;
+    fonts_in_use = 0;
+    /* pango (1.50) sorts fontconfig patterns in a worker thread that holds
+     * a reference to the font map; dropping the default map while that
+     * thread runs leaves the thread to finalise it - destroying cairo
+     * fonts - at the same time as cairo's static data is reset below
+     * (an assertion in cairo-hash.c, seen in about one run in five).
+     * So keep a reference, wait (up to 5 s) until it is the only one,
+     * and finalise the map here, in this thread.  GObject's ref_count
+     * is a public member (GObject reference manual, "GObject"). */
+    PangoFontMap *fm = pango_cairo_font_map_get_default();
+    if (fm) g_object_ref(fm);
     pango_cairo_font_map_set_default(NULL);
+    if (fm) {
+        for (int k = 0; k < 5000 && g_atomic_int_get(&G_OBJECT(fm)->ref_count) > 1; k++)
+            g_usleep(1000);
+        g_object_unref(fm);
+    }
     cairo_debug_reset_static_data();
     FcFini();
 }

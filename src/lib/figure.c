@@ -5,6 +5,7 @@
 #include "synodic.h"
 #include "synodic/contour.h"
 #include "synodic/figure.h"
+#include "synodic/lvcap.h"
 #include "synodic/report.h"
 
 #include <math.h>
@@ -97,6 +98,56 @@ size_t sy_figure_levels(const sy_grid *g, const sy_study *st,
     return sy_nice_levels(zmin, zmax, 10, levels, max);
 }
 
+sy_status sy_figure_mass_field(const sy_grid *g, const sy_lvcap *cap,
+                               float **mass_kg, unsigned char **invalid,
+                               sy_error *err)
+{
+    const size_t cells = g->nx * g->ny;
+    const float *c3 = g->field[SY_F_C3];
+    *mass_kg = NULL;
+    *invalid = NULL;
+    if (!c3) return sy_fail(err, SY_ERR_ARG, "delivered mass needs the grid's C3 field");
+    float *m = malloc(cells * sizeof *m);
+    unsigned char *bad = malloc(cells);
+    if (!m || !bad) {
+        free(m);
+        free(bad);
+        return sy_fail(err, SY_ERR_NOMEM, "out of memory");
+    }
+    for (size_t k = 0; k < cells; k++) {
+        double v = NAN;
+        /* Outside the table: blank, not extrapolated (sy_lvcap_mass). */
+        if (g->status[k] == SY_CELL_OK) (void)sy_lvcap_mass(cap, c3[k], &v, NULL);
+        bad[k] = !isfinite(v);
+        m[k] = bad[k] ? 0.0f : (float)v;
+    }
+    *mass_kg = m;
+    *invalid = bad;
+    return SY_OK;
+}
+
+/* Automatic mass levels over the range the C3 contours cover: injected
+ * mass falls as C3 rises, so the C3 basin maps to the upper masses. */
+static size_t mass_levels(const sy_grid *g, const sy_study *st, const sy_lvcap *cap,
+                          double *levels, size_t max)
+{
+    if (!st->mass_auto_levels) {
+        size_t n = st->nmass_levels < max ? st->nmass_levels : max;
+        memcpy(levels, st->mass_levels_kg, n * sizeof *levels);
+        return n;
+    }
+    sy_chart_field cf = {SY_F_C3, 1, 0, {0}};
+    double c3lv[SY_MAX_LEVELS], lo, hi, m0, m1;
+    size_t n = sy_figure_levels(g, st, &cf, c3lv, SY_MAX_LEVELS);
+    if (n < 2) return 0;
+    sy_lvcap_range(cap, &lo, &hi);
+    double c0 = fmax(c3lv[0], lo), c1 = fmin(c3lv[n - 1], hi);
+    if (!(c1 > c0) || sy_lvcap_mass(cap, c0, &m1, NULL) != SY_OK ||
+        sy_lvcap_mass(cap, c1, &m0, NULL) != SY_OK || !(m1 > m0))
+        return 0;
+    return sy_nice_levels(m0, m1, 8, levels, max);
+}
+
 static void fmt_value(double v, char *buf, size_t n)
 {
     if (fabs(v) >= 100) snprintf(buf, n, "%.0f", v);
@@ -159,7 +210,19 @@ sy_status sy_figure_write(const sy_grid *g, const sy_study *st,
                           const sy_optimum *opt, size_t nopt,
                           const char *path, sy_error *err)
 {
+    return sy_figure_write_paths(g, st, opt, nopt, NULL, 0, path, err);
+}
+
+sy_status sy_figure_write_paths(const sy_grid *g, const sy_study *st,
+                                const sy_optimum *opt, size_t nopt,
+                                const sy_chart_path *paths, size_t npaths,
+                                const char *path, sy_error *err)
+{
     const size_t nx = g->nx, ny = g->ny, cells = nx * ny;
+    sy_lvcap *cap = NULL;
+    float *mass = NULL;
+    unsigned char *mass_bad = NULL;
+    traced mass_tr = {0};
     sy_status status = SY_OK;
     unsigned char *nosol = malloc(cells);
     unsigned char *regmask[4] = {NULL, NULL, NULL, NULL};
@@ -201,7 +264,7 @@ sy_status sy_figure_write(const sy_grid *g, const sy_study *st,
     }
 
     /* Iso-lines of every charted field. */
-    sy_chart_isolines iso[SY_MAX_CHART_FIELDS];
+    sy_chart_isolines iso[SY_MAX_CHART_FIELDS + 1];
     char legends[SY_MAX_CHART_FIELDS][96];
     size_t niso = 0;
     for (size_t f = 0; f < st->nfields; f++) {
@@ -222,8 +285,30 @@ sy_status sy_figure_write(const sy_grid *g, const sy_study *st,
         iso[niso].label_every = 1;
         niso++;
     }
+    /* Delivered-mass contours: derived from C3 through the capability
+     * curve, after the grid (the grid engine stores no mass). */
+    double mass_lv[SY_MAX_LEVELS];
+    if (st->chart_mass && st->lv_capability[0] && g->field[SY_F_C3]) {
+        if ((status = sy_lvcap_load(st->lv_capability, &cap, err)) != SY_OK) goto done;
+        if ((status = sy_figure_mass_field(g, cap, &mass, &mass_bad, err)) != SY_OK) goto done;
+        size_t n = mass_levels(g, st, cap, mass_lv, SY_MAX_LEVELS);
+        for (size_t k = 0; k < cells; k++) mass_bad[k] |= nosol[k];
+        ridge_mask(g, mass, mass_lv, n, mass_bad, ridge);
+        if ((status = trace_levels(mass, ridge, nx, ny, mass_lv, n, &mass_tr)) != SY_OK) {
+            sy_fail(err, status, "contouring the delivered mass failed");
+            goto done;
+        }
+        iso[niso].role = niso == 0 ? SY_CHART_PRIMARY : niso == 1 ? SY_CHART_SECONDARY : SY_CHART_TERTIARY;
+        iso[niso].sets = mass_tr.sets;
+        iso[niso].nsets = mass_tr.nsets;
+        iso[niso].legend = "Injected mass (kg)";
+        iso[niso].label_every = 1;
+        niso++;
+    }
     ch.isolines = iso;
     ch.nisolines = niso;
+    ch.paths = paths;
+    ch.npaths = npaths;
 
     /* Filled bands of the primary field. */
     sy_chart_fill fill;
@@ -374,9 +459,16 @@ sy_status sy_figure_write(const sy_grid *g, const sy_study *st,
              sy_version(), g->spec.from->name, g->spec.to->name, nx, ny,
              g->spec.dx_days, g->spec.dy_days, g->spec.revs,
              g->spec.revs ? (g->spec.branch == SY_BRANCH_LEFT ? ", left branch" : ", right branch") : "");
-    const char *footer[3] = {f1, SY_CAUTION, f3};
+    char f4[700];
+    const char *footer[4] = {f1, SY_CAUTION, f3, f4};
     ch.footer = footer;
     ch.nfooter = 3;
+    if (cap) {
+        const char *src = strrchr(sy_lvcap_source(cap), '/');
+        snprintf(f4, sizeof f4, "Injected mass from the capability table %s (user-supplied; not extrapolated).",
+                 src ? src + 1 : sy_lvcap_source(cap));
+        ch.nfooter = 4;
+    }
 
     sy_chart_page page;
     sy_chart_page_init(&page);
@@ -398,6 +490,10 @@ sy_status sy_figure_write(const sy_grid *g, const sy_study *st,
     status = sy_chart_write(&ch, &page, path, err);
 
 done:
+    traced_free(&mass_tr);
+    free(mass);
+    free(mass_bad);
+    sy_lvcap_free(cap);
     for (size_t f = 0; f < SY_MAX_CHART_FIELDS; f++) traced_free(&tr[f]);
     traced_free(&boundary);
     for (int r = 0; r < 4; r++) free(regmask[r]);

@@ -12,10 +12,22 @@
  * does not depend on which thread runs it, so the fields are identical
  * bit for bit for any thread count.  Rows are processed in blocks so that
  * progress can be reported and the sweep cancelled between blocks.
+ *
+ * Two cell kernels (see SY_KERNEL_* in synodic/grid.h):
+ *   - vector (lambert_batch.c): each arrival row is cut into fixed blocks
+ *     of SY_BATCH_W departure epochs starting at i = 0, 64, 128, ...,
+ *     gathered into structure-of-arrays form and solved lane-wide; the
+ *     last block of a row is padded with dead lanes rather than run by a
+ *     scalar tail, and block boundaries do not depend on the thread count,
+ *     so the fields stay bit-identical for any number of threads;
+ *   - scalar: one sy_transfer_from_states() per cell; used for revs >= 1
+ *     (the vector kernel is single-revolution), when the build has no
+ *     vector kernel, or on request (SYNODIC_KERNEL=scalar).
  */
 #include "config.h"
 #include "synodic.h"
 #include "synodic/grid.h"
+#include "lambert_batch.h"
 
 #include <math.h>
 #include <stdint.h>
@@ -102,7 +114,10 @@ size_t sy_grid_bytes(const sy_grid_spec *s)
     if (s->nx == 0 || s->ny == 0) return 0;
     if (s->nx > SIZE_MAX / s->ny) return SIZE_MAX;
     size_t cells = s->nx * s->ny;
-    size_t per_cell = SY_NFIELDS * sizeof(float) + 2;
+    size_t nf = 0;
+    for (int f = 0; f < SY_NFIELDS; f++)
+        nf += !s->fields || (s->fields & SY_FIELD_BIT(f));
+    size_t per_cell = nf * sizeof(float) + 2;
     if (cells > SIZE_MAX / per_cell) return SIZE_MAX;
     size_t states = (s->nx + n_arrival_states(s)) * (6 * sizeof(double) + 1);
     return cells * per_cell + states;
@@ -213,6 +228,177 @@ static unsigned char cell_status_of(sy_status st)
     }
 }
 
+/* Kernel choice (synodic/grid.h SY_KERNEL_*). */
+static int use_vector_kernel(const sy_grid_spec *s)
+{
+    if (s->revs != 0 || !sy_batch_available() || s->kernel == SY_KERNEL_SCALAR)
+        return 0;
+    if (s->kernel == SY_KERNEL_VECTOR) return 1;
+    const char *e = getenv("SYNODIC_KERNEL");
+    return !(e && strcmp(e, "scalar") == 0);
+}
+
+/* Flight time of cell (i, j) in days, as in the scalar sweep. */
+static double cell_tof_days(const sy_grid_spec *s, size_t i, size_t j, double *jd_dep)
+{
+    *jd_dep = s->x0_jd + (double)i * s->dx_days;
+    return s->y_is_tof ? s->y0 + (double)j * s->dy_days
+                       : s->y0 + (double)j * s->dy_days - *jd_dep;
+}
+
+/* States in structure-of-arrays form for the vector kernel: component c
+ * of entry k at r[c][k], the layout of sy_batch_in, so that filling a
+ * block is a run of contiguous copies rather than a per-cell shuffle.
+ * Padded with SY_BATCH_W zero entries past n so that a block starting at
+ * any valid index can be copied whole (the lanes past the end are dead). */
+typedef struct {
+    double *r[3], *v[3];
+    unsigned char *ok;
+    double *mem;
+} state_soa;
+
+static int soa_from_states(const state6 *st, size_t n, state_soa *o)
+{
+    size_t np = n + SY_BATCH_W;
+    o->mem = calloc(6 * np, sizeof(double));
+    o->ok = calloc(np, 1);
+    if (!o->mem || !o->ok) return 0;
+    for (int c = 0; c < 3; c++) {
+        o->r[c] = o->mem + (size_t)c * np;
+        o->v[c] = o->mem + (size_t)(3 + c) * np;
+    }
+    for (size_t k = 0; k < n; k++) {
+        for (int c = 0; c < 3; c++) {
+            o->r[c][k] = st[k].r[c];
+            o->v[c][k] = st[k].v[c];
+        }
+        o->ok[k] = (unsigned char)st[k].ok;
+    }
+    return 1;
+}
+
+static void soa_free(state_soa *o)
+{
+    free(o->mem);
+    free(o->ok);
+}
+
+/* Per-thread block buffers: the kernel's input and output and the status
+ * that each lane gets when it is not solved (set by gather_block). */
+typedef struct {
+    sy_batch_in in;
+    sy_batch_out out;
+    unsigned char st0[SY_BATCH_W];
+} block_buf;
+
+/* Fill the block of row j that starts at departure index i0 (n <= W
+ * cells).  Lanes past the row's end, with no positive flight time or
+ * with a state outside the ephemeris are dead, their status in b->st0.
+ * dep is indexed by i; arr (when the arrival states are tabulated) by j
+ * on an arrival-date axis and by la i + lb j on the flight-time lattice.
+ * Returns the seconds spent evaluating per-cell arrival states
+ * (incommensurate flight-time axis only). */
+static double gather_block(const sy_grid *g, const state_soa *dep, const state_soa *arr,
+                           long la, long lb, size_t j, size_t i0, block_buf *b)
+{
+    const sy_grid_spec *spec = &g->spec;
+    sy_batch_in *in = &b->in;
+    const size_t n = g->nx - i0 < SY_BATCH_W ? g->nx - i0 : SY_BATCH_W;
+    double extra = 0;
+    for (int c = 0; c < 3; c++) {
+        memcpy(in->r1[c], dep->r[c] + i0, sizeof in->r1[c]);
+        memcpy(in->vb1[c], dep->v[c] + i0, sizeof in->vb1[c]);
+    }
+    /* arrival-state validity of each lane (1 for an evaluated state) */
+    unsigned char aok[SY_BATCH_W];
+    if (!spec->y_is_tof) {
+        /* one arrival epoch per row: broadcast */
+        for (int c = 0; c < 3; c++) {
+            const double rc = arr->r[c][j], vc = arr->v[c][j];
+#pragma omp simd
+            for (int l = 0; l < SY_BATCH_W; l++) {
+                in->r2[c][l] = rc;
+                in->vb2[c][l] = vc;
+            }
+        }
+        memset(aok, arr->ok[j], sizeof aok);
+    } else if (arr) {
+        size_t k0 = (size_t)la * i0 + (size_t)lb * j;
+        if (la == 1) {
+            /* consecutive departures, consecutive arrivals (padded) */
+            for (int c = 0; c < 3; c++) {
+                memcpy(in->r2[c], arr->r[c] + k0, sizeof in->r2[c]);
+                memcpy(in->vb2[c], arr->v[c] + k0, sizeof in->vb2[c]);
+            }
+            memcpy(aok, arr->ok + k0, sizeof aok);
+        } else {
+            /* strided; lanes past the row end repeat its last cell */
+            for (size_t l = 0; l < SY_BATCH_W; l++) {
+                size_t k = k0 + (size_t)la * (l < n ? l : n - 1);
+                for (int c = 0; c < 3; c++) {
+                    in->r2[c][l] = arr->r[c][k];
+                    in->vb2[c][l] = arr->v[c][k];
+                }
+                aok[l] = arr->ok[k];
+            }
+        }
+    } else {
+        memset(aok, 0, sizeof aok);
+    }
+    for (size_t l = 0; l < SY_BATCH_W; l++) {
+        double jd_dep, tof_d = cell_tof_days(spec, i0 + (l < n ? l : 0), j, &jd_dep);
+        in->tof_s[l] = tof_d * SY_DAY_S;
+        unsigned char st = !(tof_d > 0) ? SY_CELL_NOTIME : SY_CELL_OK;
+        if (st == SY_CELL_OK && spec->y_is_tof && !arr && l < n) {
+            /* incommensurate steps: this cell's own arrival state */
+            double ta = now_s(), r[3], v[3];
+            aok[l] = sy_body_state(spec->to, jd_dep + tof_d, r, v) == SY_OK;
+            extra += now_s() - ta;
+            for (int c = 0; c < 3; c++) {
+                in->r2[c][l] = r[c];
+                in->vb2[c][l] = v[c];
+            }
+        }
+        if (st == SY_CELL_OK && !(dep->ok[i0 + l] && aok[l])) st = SY_CELL_RANGE;
+        b->st0[l] = st;
+        in->live[l] = (unsigned char)(l < n && st == SY_CELL_OK);
+    }
+    return extra;
+}
+
+/* Store the block: solved lanes get the kernel's status, type and the
+ * fields asked for (as float; the kernel has put NaN in the lanes without
+ * a solution); other cells their gather status, type 0 and NaN.  solved =
+ * 0 when the kernel did not run (no live lane).  Branch-free loops, so
+ * each is a plain vector loop. */
+static void scatter_block(sy_grid *g, size_t j, size_t i0, const block_buf *b,
+                          int solved)
+{
+    const size_t n = g->nx - i0 < SY_BATCH_W ? g->nx - i0 : SY_BATCH_W;
+    const size_t k0 = j * g->nx + i0;
+    unsigned char *restrict st = g->status + k0, *restrict ty = g->type + k0;
+    const sy_batch_in *in = &b->in;
+    const sy_batch_out *bo = &b->out;
+#pragma omp simd
+    for (size_t l = 0; l < n; l++) {
+        unsigned char s = in->live[l] ? bo->status[l] : b->st0[l];
+        st[l] = s;
+        ty[l] = s == SY_CELL_OK ? bo->type[l] : 0;
+    }
+    for (int f = 0; f < SY_NFIELDS; f++) {
+        float *restrict F = g->field[f];
+        if (!F) continue;
+        F += k0;
+        const double *v = bo->f[f];
+        if (solved) {
+#pragma omp simd
+            for (size_t l = 0; l < n; l++) F[l] = (float)v[l];
+        } else {
+            for (size_t l = 0; l < n; l++) F[l] = NAN;
+        }
+    }
+}
+
 sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
                           void *user, sy_grid **out, sy_error *err)
 {
@@ -237,7 +423,8 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
     g->type = calloc(cells, 1);
     int ok = g->status && g->type;
     for (int f = 0; f < SY_NFIELDS && ok; f++)
-        if (field_available(spec, (sy_field)f)) {
+        if (field_available(spec, (sy_field)f) &&
+            (!spec->fields || (spec->fields & SY_FIELD_BIT(f)))) {
             g->field[f] = malloc(cells * sizeof(float));
             ok = g->field[f] != NULL;
         }
@@ -275,7 +462,64 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
     const size_t block_rows = g->ny > 64 ? (g->ny + 63) / 64 : 1;
     sy_status result = SY_OK;
     double ephem_cells = 0;
-    for (size_t j0 = 0; j0 < g->ny; j0 += block_rows) {
+    const int vec = use_vector_kernel(spec);
+    g->kernel = vec ? sy_batch_isa() : "scalar";
+    sy_batch_ctx ctx;
+    memset(&ctx, 0, sizeof ctx);
+    for (int f = 0; f < SY_NFIELDS; f++)
+        if (g->field[f]) ctx.fields |= SY_FIELD_BIT(f);
+    if (ctx.fields & (SY_FIELD_BIT(SY_F_DV_DEP) | SY_FIELD_BIT(SY_F_DV_TOTAL))) {
+        ctx.gm_from = gm1;
+        ctx.r_park_km = R1 + spec->opts.park_alt_km;
+    }
+    if (ctx.fields & (SY_FIELD_BIT(SY_F_DV_CAP) | SY_FIELD_BIT(SY_F_DV_TOTAL) |
+                      SY_FIELD_BIT(SY_F_V_ENTRY))) {
+        ctx.gm_to = gm2;
+        ctx.r_cap_peri_km = R2 + spec->opts.capture_peri_km;
+        ctx.r_cap_apo_km = R2 + spec->opts.capture_apo_km;
+        ctx.r_entry_km = R2 + spec->opts.entry_alt_km;
+    }
+    const size_t nblk = (g->nx + SY_BATCH_W - 1) / SY_BATCH_W;
+    state_soa dsoa, asoa;
+    memset(&dsoa, 0, sizeof dsoa);
+    memset(&asoa, 0, sizeof asoa);
+    if (vec && (!soa_from_states(dep, g->nx, &dsoa) ||
+                (arr && !soa_from_states(arr, narr, &asoa)))) {
+        result = sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the sweep tables");
+    }
+    for (size_t j0 = 0; j0 < g->ny && vec && result == SY_OK; j0 += block_rows) {
+        size_t j1 = j0 + block_rows < g->ny ? j0 + block_rows : g->ny;
+        long long units = (long long)((j1 - j0) * nblk);
+        double extra = 0;
+        int nomem = 0;
+#pragma omp parallel num_threads(threads) reduction(+:extra) reduction(|:nomem)
+        {
+            block_buf *b = aligned_alloc(64, (sizeof *b + 63) / 64 * 64);
+            if (b) memset(b, 0, sizeof *b); /* no lane is ever read uninitialised */
+            else nomem = 1;
+#pragma omp for schedule(dynamic, 4)
+            for (long long u = 0; u < units; u++) {
+                if (!b) continue;
+                size_t j = j0 + (size_t)u / nblk, i0 = ((size_t)u % nblk) * SY_BATCH_W;
+                extra += gather_block(g, &dsoa, arr ? &asoa : NULL, la, lb, j, i0, b);
+                int any = 0;
+                for (int l = 0; l < SY_BATCH_W; l++) any |= b->in.live[l];
+                if (any) sy_batch_solve(&ctx, &b->in, &b->out);
+                scatter_block(g, j, i0, b, any);
+            }
+            free(b);
+        }
+        ephem_cells += extra;
+        if (nomem) {
+            result = sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the sweep buffers");
+            break;
+        }
+        if (progress && progress((double)j1 / (double)g->ny, user)) {
+            result = sy_fail(err, SY_ERR_IO, "interrupted");
+            break;
+        }
+    }
+    for (size_t j0 = 0; j0 < g->ny && !vec; j0 += block_rows) {
         size_t j1 = j0 + block_rows < g->ny ? j0 + block_rows : g->ny;
         long long kbeg = (long long)(j0 * g->nx), kend = (long long)(j1 * g->nx);
         double extra = 0;
@@ -314,6 +558,8 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
             break;
         }
     }
+    soa_free(&dsoa);
+    soa_free(&asoa);
     g->seconds_ephem += ephem_cells / threads;
     g->seconds_cells = now_s() - t1 - ephem_cells / threads;
     free(dep);
@@ -329,12 +575,14 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
 int sy_grid_cell_feasible(const sy_grid *g, const sy_study *st, size_t k)
 {
     if (g->status[k] != SY_CELL_OK) return 0;
+    /* a limit on a field the grid was not asked to store cannot be
+     * checked here; the caller asks for the fields its limits need */
     float *const *F = g->field;
-    if (isfinite(st->c3_max_km2_s2) && !(F[SY_F_C3][k] <= st->c3_max_km2_s2)) return 0;
-    if (isfinite(st->vinf_arr_max_km_s) && !(F[SY_F_VINF_ARR][k] <= st->vinf_arr_max_km_s)) return 0;
-    if (isfinite(st->dla_max_deg) && !(fabsf(F[SY_F_DLA][k]) <= st->dla_max_deg)) return 0;
-    if (isfinite(st->tof_min_days) && !(F[SY_F_TOF][k] >= st->tof_min_days)) return 0;
-    if (isfinite(st->tof_max_days) && !(F[SY_F_TOF][k] <= st->tof_max_days)) return 0;
+    if (isfinite(st->c3_max_km2_s2) && F[SY_F_C3] && !(F[SY_F_C3][k] <= st->c3_max_km2_s2)) return 0;
+    if (isfinite(st->vinf_arr_max_km_s) && F[SY_F_VINF_ARR] && !(F[SY_F_VINF_ARR][k] <= st->vinf_arr_max_km_s)) return 0;
+    if (isfinite(st->dla_max_deg) && F[SY_F_DLA] && !(fabsf(F[SY_F_DLA][k]) <= st->dla_max_deg)) return 0;
+    if (isfinite(st->tof_min_days) && F[SY_F_TOF] && !(F[SY_F_TOF][k] >= st->tof_min_days)) return 0;
+    if (isfinite(st->tof_max_days) && F[SY_F_TOF] && !(F[SY_F_TOF][k] <= st->tof_max_days)) return 0;
     return 1;
 }
 

@@ -5,6 +5,8 @@
 #include "synodic/io.h"
 
 #include <errno.h>
+#include <pthread.h>
+#include <signal.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -36,12 +38,24 @@ int sy_outfile_open(sy_outfile *of, const char *path, void *errp)
         return sy_fail(err, SY_ERR_ARG, "output path too long: %s", path);
     snprintf(of->path, sizeof of->path, "%s", path);
     snprintf(of->tmp, sizeof of->tmp, "%s.tmp.XXXXXX", path);
+    /* Hold SIGINT/SIGTERM from the creation of the temporary until it is
+     * in the registry, so that an interrupt in between cannot leave it
+     * behind (the handler removes only registered temporaries). */
+    sigset_t block, old;
+    sigemptyset(&block);
+    sigaddset(&block, SIGINT);
+    sigaddset(&block, SIGTERM);
+    sigaddset(&block, SIGHUP);
+    pthread_sigmask(SIG_BLOCK, &block, &old);
     int fd = mkstemp(of->tmp);
     if (fd < 0) {
         int e = errno;
         of->tmp[0] = '\0';
+        pthread_sigmask(SIG_SETMASK, &old, NULL);
         return sy_fail(err, SY_ERR_IO, "cannot create %s: %s (check that the directory exists and is writable)", path, strerror(e));
     }
+    registry_add(of);
+    pthread_sigmask(SIG_SETMASK, &old, NULL);
     /* mkstemp creates 0600; a finished chart is an ordinary file, so give
      * it the permissions the user's umask asks for. */
     mode_t mask = umask(0);
@@ -54,10 +68,10 @@ int sy_outfile_open(sy_outfile *of, const char *path, void *errp)
         int e = errno;
         close(fd);
         unlink(of->tmp);
+        registry_remove(of);
         of->tmp[0] = '\0';
         return sy_fail(err, SY_ERR_IO, "cannot write %s: %s", path, strerror(e));
     }
-    registry_add(of);
     return SY_OK;
 }
 

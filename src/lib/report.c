@@ -4,6 +4,7 @@
 #include "config.h"
 #include "synodic.h"
 #include "synodic/io.h"
+#include "synodic/lvcap.h"
 #include "synodic/report.h"
 
 #include <jansson.h>
@@ -190,6 +191,20 @@ sy_status sy_report_json(const sy_grid *g, const sy_study *st,
     if (st->orbits.want_entry) json_object_set_new(orb, "entry_alt_km", json_real(st->orbits.entry_alt_km));
     json_object_set_new(root, "orbits", orb);
 
+    /* Launch vehicle: injected mass and margin at each optimum's C3. */
+    sy_lvcap *cap = NULL;
+    if (st->lv_capability[0]) {
+        sy_status ls = sy_lvcap_load(st->lv_capability, &cap, err);
+        if (ls != SY_OK) {
+            json_decref(root);
+            return ls;
+        }
+        json_t *lv = json_object();
+        json_object_set_new(lv, "capability_file", json_string(st->lv_capability));
+        json_object_set_new(lv, "spacecraft_mass_kg", jnum(st->spacecraft_mass_kg));
+        json_object_set_new(root, "launch_vehicle", lv);
+    }
+
     json_t *arr = json_array();
     for (size_t k = 0; k < nopt; k++) {
         json_t *o;
@@ -204,9 +219,17 @@ sy_status sy_report_json(const sy_grid *g, const sy_study *st,
                             opt[k].type ? json_string(opt[k].type == 1 ? "I" : "II") : json_null());
         json_object_set_new(o, "found", json_boolean(opt[k].found));
         if (opt[k].found) json_object_set_new(o, "value", json_real(opt[k].value));
+        if (opt[k].found && cap) {
+            /* null when the C3 lies outside the table (no extrapolation) */
+            double m;
+            (void)sy_lvcap_mass(cap, opt[k].transfer.c3_km2_s2, &m, NULL);
+            json_object_set_new(o, "injected_mass_kg", jnum(m));
+            json_object_set_new(o, "mass_margin_kg", jnum(m - st->spacecraft_mass_kg));
+        }
         json_array_append_new(arr, o);
     }
     json_object_set_new(root, "optima", arr);
+    sy_lvcap_free(cap);
 
     char *text = json_dumps(root, JSON_INDENT(2) | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(10));
     json_decref(root);

@@ -33,7 +33,8 @@
  *                 arrival window must end after the departure window starts
  *   -- or --
  *   [flight]      time-of-flight window (the y axis is the flight time)
- *     tof_min_days > 0, tof_max_days > tof_min_days (at most 200 years),
+ *     tof_min_days >= 1 (patched conics need at least a day),
+ *     tof_max_days > tof_min_days (at most 200 years),
  *     step_days    > 0, at most tof_max_days - tof_min_days
  *   Exactly one of [arrival] and [flight] must be present.
  *
@@ -73,8 +74,27 @@
  *                 day counts
  *     filled      yes | no (default no): colour bands for the primary field
  *     types       yes | no (default yes): draw the Type I / II boundary
+ *               "mass" may also be listed (it does not count as a
+ *                 primary field): contours of the injected mass the launch
+ *                 vehicle delivers at each cell's C3; needs
+ *                 [launch_vehicle] capability.
+ *     mass_levels  iso-lines of "mass" in kg: auto (default) or a strictly
+ *                 ascending comma list, e.g. mass_levels = 1000, 1200, 1400
  *   The y axis (arrival date or flight time) follows from [arrival] or
  *   [flight].
+ *
+ *   [period]      launch-period design (synodic period; all optional)
+ *     length_days  required launch period in days, whole number >= 1
+ *     arrival      fixed | free | both (default both): one arrival date
+ *                 for the whole period, a free arrival per day, or both
+ *
+ *   [launch_vehicle]
+ *     capability  CSV of injected mass against C3 (format in
+ *                 synodic/lvcap.h and synodic(1)); a relative path is
+ *                 taken relative to the study file's directory; read and
+ *                 checked when the study is loaded
+ *     spacecraft_mass_kg  spacecraft launch mass, > 0: mass margins are
+ *                 capability minus this; needs capability
  *
  *   [output]
  *     formats     comma list of png, svg, pdf, csv, json (default: all)
@@ -111,6 +131,7 @@
  */
 #include "config.h"
 #include "synodic.h"
+#include "synodic/lvcap.h"
 #include "synodic/study.h"
 
 #include <ctype.h>
@@ -181,15 +202,16 @@ int sy_field_from_name(const char *name)
 /* Sections and keys                                                   */
 
 enum { S_STUDY, S_TRANSFER, S_DEPARTURE, S_ARRIVAL, S_FLIGHT, S_ORBITS,
-       S_LIMITS, S_CHART, S_OUTPUT, S_COUNT };
+       S_LIMITS, S_CHART, S_OUTPUT, S_PERIOD, S_LV, S_COUNT };
 
 static const char *const sect_names[S_COUNT] = {
     "study", "transfer", "departure", "arrival", "flight",
-    "orbits", "limits", "chart", "output"};
+    "orbits", "limits", "chart", "output", "period", "launch_vehicle"};
 
 #define ACCEPTED_SECTIONS                                                  \
     "accepted sections: [study], [transfer], [departure], [arrival], "     \
-    "[flight], [orbits], [limits], [chart], [output]"
+    "[flight], [orbits], [limits], [chart], [output], [period], "         \
+    "[launch_vehicle]"
 
 static const char *const keys_study[] = {"title", "subtitle", "bodies", NULL};
 static const char *const keys_transfer[] = {"origin", "target", "revolutions",
@@ -210,9 +232,13 @@ static const char *const keys_output[] = {"formats", "directory", "name",
                                           "width_in", "height_in", "width_px",
                                           "height_px", "dpi", NULL};
 
+static const char *const keys_period[] = {"length_days", "arrival", NULL};
+static const char *const keys_lv[] = {"capability", "spacecraft_mass_kg",
+                                      NULL};
+
 static const char *const *const sect_keys[S_COUNT] = {
     keys_study, keys_transfer, keys_window, keys_window, keys_flight,
-    keys_orbits, keys_limits, keys_chart, keys_output};
+    keys_orbits, keys_limits, keys_chart, keys_output, keys_period, keys_lv};
 
 static int sect_from_name(const char *name)
 {
@@ -245,7 +271,9 @@ static int key_known(int s, const char *key)
     for (const char *const *k = sect_keys[s]; *k; k++)
         if (strcmp(*k, key) == 0)
             return 1;
-    return s == S_CHART && levels_key_field(key) >= 0;
+    /* mass_levels: NAME_levels of the derived field "mass" */
+    return s == S_CHART &&
+           (levels_key_field(key) >= 0 || strcmp(key, "mass_levels") == 0);
 }
 
 /* "accepted keys: a, b, c" for section s. */
@@ -259,15 +287,16 @@ static void accepted_keys(int s, char *buf, size_t len)
     }
     if (s == S_CHART && used < len)
         snprintf(buf + used, len - used,
-                 ", NAME_levels for NAME one of " FIELD_NAMES);
+                 ", NAME_levels for NAME one of " FIELD_NAMES ", mass");
 }
 
 /* ------------------------------------------------------------------ */
 /* Reading context                                                     */
 
-/* Every key of every section, counted: 3+4+3+3+3+4+5+(4+15)+8 = 52.  As
- * duplicates are refused, the table can never hold more. */
-#define MAX_ENTRIES 64
+/* Every key of every section, counted: 3+4+3+3+3+4+5+(5+15)+8+2+2 = 57.
+ * As duplicates are refused, the table can never hold more (room is left
+ * for keys to come). */
+#define MAX_ENTRIES 96
 
 typedef struct {
     int sect;
@@ -614,6 +643,8 @@ static void apply_override(ctx *c, const char *text, size_t index)
 #define MAX_SPAN_DAYS (200.0 * 365.25)
 /* Most grid steps along one axis. */
 #define MAX_AXIS_STEPS 100000.0
+/* Shortest flight of a [flight] window (see do_flight()). */
+#define MIN_FLIGHT_DAYS 1.0
 #define MAX_SIZE_IN 100.0
 /* Largest side of a cairo image surface (32767 px, from memory of the
  * cairo documentation). */
@@ -1005,6 +1036,17 @@ static int do_flight(ctx *c, sy_study *st)
                  "days", st->tof_start_days);
         return 0;
     }
+    /* Patched conics assume the flight is long compared with the hours
+     * spent leaving the departure body's sphere of influence (common
+     * practice); below a day the figures would be numbers without meaning
+     * (a one-second Earth-Mars flight is faster than light). */
+    if (st->tof_start_days < MIN_FLIGHT_DAYS) {
+        fail_key(c, e0, "%g days is shorter than the %g day minimum "
+                 "flight time of the patched-conic model; give "
+                 "tof_min_days >= %g", st->tof_start_days, MIN_FLIGHT_DAYS,
+                 MIN_FLIGHT_DAYS);
+        return 0;
+    }
     if (!(st->tof_end_days > st->tof_start_days)) {
         char w[80];
         entry_where(c, e0, e1, w, sizeof w);
@@ -1128,6 +1170,98 @@ static int do_limits(ctx *c, sy_study *st)
     return 1;
 }
 
+static int do_period(ctx *c, sy_study *st)
+{
+    st->period_length_days = NAN;
+    st->period_arrival = SY_PERIOD_ARR_FIXED | SY_PERIOD_ARR_FREE;
+    const entry *e;
+    double x;
+    int r = opt_number(c, S_PERIOD, "length_days", "= 20", &x, &e);
+    if (r < 0)
+        return 0;
+    if (r > 0) {
+        if (!(x >= 1 && x <= MAX_SPAN_DAYS) || x != floor(x)) {
+            fail_key(c, e, "%g is not a whole number of days from 1 to %.0f; "
+                     "launch periods are counted in daily opportunities, "
+                     "e.g. length_days = 20", x, MAX_SPAN_DAYS);
+            return 0;
+        }
+        st->period_length_days = x;
+    }
+    if ((e = find_entry(c, S_PERIOD, "arrival"))) {
+        if (!strcasecmp(e->value, "fixed"))
+            st->period_arrival = SY_PERIOD_ARR_FIXED;
+        else if (!strcasecmp(e->value, "free"))
+            st->period_arrival = SY_PERIOD_ARR_FREE;
+        else if (strcasecmp(e->value, "both")) {
+            fail_key(c, e, "'%.40s' is not fixed, free or both; write e.g. "
+                     "arrival = fixed", e->value);
+            return 0;
+        }
+    }
+    return 1;
+}
+
+static int do_launch_vehicle(ctx *c, sy_study *st)
+{
+    st->lv_capability[0] = '\0';
+    st->spacecraft_mass_kg = NAN;
+    const entry *e = find_entry(c, S_LV, "capability");
+    if (e) {
+        if (!e->value[0]) {
+            fail_key(c, e, "empty path; give a CSV of injected mass against "
+                     "C3, e.g. capability = launch-vehicle.csv");
+            return 0;
+        }
+        int n;
+        if (e->value[0] == '/' || strcmp(st->dir, ".") == 0)
+            n = snprintf(st->lv_capability, sizeof st->lv_capability, "%s",
+                         e->value);
+        else
+            n = snprintf(st->lv_capability, sizeof st->lv_capability,
+                         "%s/%s", st->dir, e->value);
+        if (n < 0 || (size_t)n >= sizeof st->lv_capability) {
+            fail_key(c, e, "path too long (%d bytes with the study's "
+                     "directory); use a shorter path", n);
+            return 0;
+        }
+        /* Read it now so that a bad table is reported before any grid is
+         * computed. */
+        sy_lvcap *cap = NULL;
+        sy_error lerr;
+        lerr.msg[0] = '\0';
+        sy_status ls = sy_lvcap_load(st->lv_capability, &cap, &lerr);
+        if (ls != SY_OK) {
+            fail_key(c, e, "%.330s", lerr.msg);
+            /* a file that cannot be read is an I/O error (exit 5), like a
+             * missing bodies file, not bad content */
+            if (ls == SY_ERR_IO || ls == SY_ERR_NOMEM)
+                c->st = ls;
+            return 0;
+        }
+        sy_lvcap_free(cap);
+    }
+    double x;
+    int r = opt_number(c, S_LV, "spacecraft_mass_kg", "= 1250", &x, &e);
+    if (r < 0)
+        return 0;
+    if (r > 0) {
+        if (!(x > 0)) {
+            fail_key(c, e, "%g kg is not positive; give the spacecraft's "
+                     "launch mass in kg", x);
+            return 0;
+        }
+        if (!st->lv_capability[0]) {
+            fail_key(c, e, "given without capability; add [launch_vehicle] "
+                     "capability = FILE.csv (the margin is capability minus "
+                     "spacecraft mass)");
+            return 0;
+        }
+        st->spacecraft_mass_kg = x;
+    }
+    return 1;
+}
+
 static int do_chart(ctx *c, sy_study *st)
 {
     /* fields */
@@ -1154,27 +1288,43 @@ static int do_chart(ctx *c, sy_study *st)
                      SY_MAX_CHART_FIELDS, SY_MAX_CHART_FIELDS);
             ok = 0;
         }
+        int nf = 0;
         for (int i = 0; ok && i < n; i++) {
+            if (!strcasecmp(items[i], "mass")) {
+                /* Derived from C3 after the grid: not a grid field. */
+                if (st->chart_mass) {
+                    fail_key(c, ef, "field 'mass' is listed twice; list "
+                             "each field once");
+                    ok = 0;
+                } else if (!st->lv_capability[0]) {
+                    fail_key(c, ef, "field 'mass' needs [launch_vehicle] "
+                             "capability (a CSV of injected mass against "
+                             "C3); add it or remove the field");
+                    ok = 0;
+                }
+                st->chart_mass = 1;
+                continue;
+            }
             int f = sy_field_from_name(items[i]);
             if (f < 0) {
                 fail_key(c, ef, "unknown field '%.40s'; accepted fields: "
-                         FIELD_NAMES, items[i]);
+                         FIELD_NAMES ", mass", items[i]);
                 ok = 0;
                 break;
             }
-            for (int j = 0; j < i; j++)
+            for (int j = 0; j < nf; j++)
                 if ((int)st->fields[j].field == f) {
                     fail_key(c, ef, "field '%s' is listed twice; list each "
                              "field once", field_info[f].name);
                     ok = 0;
                     break;
                 }
-            st->fields[i].field = (sy_field)f;
+            st->fields[nf++].field = (sy_field)f;
         }
         free(buf);
         if (!ok)
             return 0;
-        st->nfields = (size_t)n;
+        st->nfields = (size_t)nf;
     } else {
         st->nfields = 2;
         st->fields[0].field = SY_F_C3;
@@ -1222,6 +1372,16 @@ static int do_chart(ctx *c, sy_study *st)
                 st->fields[i].nlevels = nlv;
                 memcpy(st->fields[i].levels, lv, nlv * sizeof lv[0]);
             }
+    }
+
+    /* mass_levels (checked whether or not "mass" is charted) */
+    st->mass_auto_levels = 1;
+    st->nmass_levels = 0;
+    const entry *em = find_entry(c, S_CHART, "mass_levels");
+    if (em && strcasecmp(em->value, "auto")) {
+        st->mass_auto_levels = 0;
+        if (!get_levels(c, em, 0, st->mass_levels_kg, &st->nmass_levels))
+            return 0;
     }
 
     /* tof_lines */
@@ -1541,11 +1701,13 @@ sy_status sy_study_load(const char *path, const char *const *overrides,
             snprintf(st->dir, sizeof st->dir, "%.*s", (int)(slash - path),
                      path);
         /* Order matters: [arrival] checks against the departure window,
-         * [chart] against [orbits], pixel sizes need dpi. */
+         * [chart] against [orbits] and [launch_vehicle], pixel sizes
+         * need dpi. */
         (void)(do_study(c, st) && do_transfer(c, st) &&
                do_window(c, S_DEPARTURE, &st->dep_start_jd, &st->dep_end_jd,
                          &st->dep_step_days) &&
                do_yaxis(c, st) && do_orbits(c, st) && do_limits(c, st) &&
+               do_period(c, st) && do_launch_vehicle(c, st) &&
                do_chart(c, st) && do_output(c, st));
     }
 

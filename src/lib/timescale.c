@@ -122,12 +122,33 @@ static const char *read_digits(const char *p, int min, int max, long *v)
     return p + n;
 }
 
+/* The user's text as it may appear inside a one-line message: control
+ * bytes (newline, NUL-adjacent garbage, escape sequences) become \xNN and
+ * long text is cut to fit, so that an error is always one short line. */
+static void show_text(const char *in, char *out, size_t len)
+{
+    size_t o = 0;
+    for (const unsigned char *q = (const unsigned char *)in; *q; q++) {
+        if (o + 8 >= len) {
+            snprintf(out + o, len - o, "...");
+            return;
+        }
+        if (*q < 0x20 || *q == 0x7f)
+            o += (size_t)snprintf(out + o, len - o, "\\x%02X", *q);
+        else
+            out[o++] = (char)*q;
+    }
+    out[o] = '\0';
+}
+
 #define DATE_FORMS "use YYYY-MM-DD, YYYY-MM-DDTHH:MM[:SS] or JD2461234.5"
 
 sy_status sy_date_parse(const char *text, double *jd_tdb, sy_error *err)
 {
     if (!text || !*text)
         return sy_fail(err, SY_ERR_PARSE, "empty date; " DATE_FORMS);
+    char shown[80];
+    show_text(text, shown, sizeof shown);
     const char *s = text;
     while (isspace((unsigned char)*s)) s++;
 
@@ -140,10 +161,10 @@ sy_status sy_date_parse(const char *text, double *jd_tdb, sy_error *err)
         while (isspace((unsigned char)*end)) end++;
         if (end == num || *end || errno == ERANGE || !isfinite(jd))
             return sy_fail(err, SY_ERR_PARSE,
-                           "invalid Julian date '%s'; " DATE_FORMS, text);
+                           "invalid Julian date '%s'; " DATE_FORMS, shown);
         if (jd < 0 || jd > 1e8)
             return sy_fail(err, SY_ERR_PARSE,
-                           "Julian date '%s' is out of range (0 to 1e8)", text);
+                           "Julian date '%s' is out of range (0 to 1e8)", shown);
         *jd_tdb = jd;
         return SY_OK;
     }
@@ -155,25 +176,25 @@ sy_status sy_date_parse(const char *text, double *jd_tdb, sy_error *err)
     double ss = 0;
     p = read_digits(p, 4, 6, &y);
     if (!p || *p != '-')
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': year must be 4 digits followed by '-'; " DATE_FORMS, text);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': year must be 4 digits followed by '-'; " DATE_FORMS, shown);
     p = read_digits(p + 1, 1, 2, &m);
     if (!p || *p != '-')
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': month must be 2 digits followed by '-'; " DATE_FORMS, text);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': month must be 2 digits followed by '-'; " DATE_FORMS, shown);
     p = read_digits(p + 1, 1, 2, &d);
     if (!p)
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': day must be 2 digits; " DATE_FORMS, text);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': day must be 2 digits; " DATE_FORMS, shown);
     if (neg) y = -y;
     if (*p == 'T' || *p == 't' || (*p == ' ' && isdigit((unsigned char)p[1]))) {
         p = read_digits(p + 1, 1, 2, &hh);
         if (!p || *p != ':')
-            return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': expected HH:MM; " DATE_FORMS, text);
+            return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': expected HH:MM; " DATE_FORMS, shown);
         p = read_digits(p + 1, 2, 2, &mm);
         if (!p)
-            return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': minutes must be 2 digits; " DATE_FORMS, text);
+            return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': minutes must be 2 digits; " DATE_FORMS, shown);
         if (*p == ':') {
             const char *q = p + 1;
             if (!isdigit((unsigned char)*q))
-                return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': seconds must be digits", text);
+                return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': seconds must be digits", shown);
             char *end;
             ss = strtod(q, &end);
             p = end;
@@ -181,22 +202,25 @@ sy_status sy_date_parse(const char *text, double *jd_tdb, sy_error *err)
         if (*p == 'Z' || *p == 'z') p++;
     }
     while (isspace((unsigned char)*p)) p++;
-    if (*p)
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': unexpected text '%s'; " DATE_FORMS, text, p);
+    if (*p) {
+        char rest[80];
+        show_text(p, rest, sizeof rest);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': unexpected text '%s'; " DATE_FORMS, shown, rest);
+    }
 
     if (m < 1 || m > 12)
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': month %ld is out of range (1-12)", text, m);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': month %ld is out of range (1-12)", shown, m);
     int dim = days_in_month(y, (int)m);
     if (d < 1 || d > dim)
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': day %ld is out of range for %04ld-%02ld (1-%d)", text, d, y, m, dim);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': day %ld is out of range for %04ld-%02ld (1-%d)", shown, d, y, m, dim);
     if (hh > 23)
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': hour %ld is out of range (0-23)", text, hh);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': hour %ld is out of range (0-23)", shown, hh);
     if (mm > 59)
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': minute %ld is out of range (0-59)", text, mm);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': minute %ld is out of range (0-59)", shown, mm);
     if (!(ss >= 0 && ss < 60))
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': second %g is out of range (0-59.999)", text, ss);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': second %g is out of range (0-59.999)", shown, ss);
     if (y < -4700 || y > 99999)
-        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': year %ld is out of range", text, y);
+        return sy_fail(err, SY_ERR_PARSE, "invalid date '%s': year %ld is out of range", shown, y);
     *jd_tdb = sy_jd_from_calendar((int)y, (int)m, (int)d, (int)hh, (int)mm, ss);
     return SY_OK;
 }

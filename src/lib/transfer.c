@@ -228,6 +228,16 @@ sy_status sy_transfer_compute(const sy_body *from, const sy_body *to,
         sy_date_format(jd_arr, 1, b, sizeof b);
         return sy_fail(err, SY_ERR_ARG, "arrival %s is not after departure %s; give an arrival date later than the departure", b, a);
     }
+    /* Patched conics assume the flight is long compared with the hours
+     * spent leaving the departure body's sphere of influence (common
+     * practice): below a day the figures would be numbers without meaning
+     * (a one-second Earth-Mars flight would be faster than light). */
+    if ((jd_arr - jd_dep) < 1.0) {
+        char a[40], b[40];
+        sy_date_format(jd_dep, 1, a, sizeof a);
+        sy_date_format(jd_arr, 1, b, sizeof b);
+        return sy_fail(err, SY_ERR_ARG, "a flight of %.3g s (%s to %s) is shorter than the 1 day minimum of the patched-conic model; give an arrival at least a day after the departure", (jd_arr - jd_dep) * SY_DAY_S, a, b);
+    }
     if (revs < 0 || revs > 1000)
         return sy_fail(err, SY_ERR_ARG, "revolutions %d must be between 0 and 1000", revs);
     sy_status st = check_opts(from, to, opts, err);

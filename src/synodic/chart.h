@@ -103,6 +103,20 @@ typedef struct {
     const char *legend;   /* optional legend entry                      */
 } sy_chart_marker;
 
+/* A highlighted path across the chart, e.g. a launch period: one point
+ * per departure day, y the arrival epoch (or TOF) chosen for that day.
+ * Drawn as a heavy cased line over the iso-lines with dots at the points
+ * (when they are far enough apart to read) and larger dots at both ends;
+ * the label is placed beside the path, inside the plot and clear of the
+ * other labels.  A non-finite x_jd or y leaves a gap. */
+typedef struct {
+    const double *x_jd;   /* departure epochs, JD TDB                   */
+    const double *y;      /* arrival JD TDB or TOF days (per yaxis)     */
+    size_t n;
+    const char *label;    /* e.g. "Launch period\n21 days"              */
+    const char *legend;   /* optional legend entry                      */
+} sy_chart_path;
+
 /* Filled-contour mode: the field is drawn as colour bands between the
  * ascending `levels` (nlevels >= 2), plus open-ended bands below the
  * first and above the last level, with a colour bar. */
@@ -139,6 +153,8 @@ typedef struct {
     const sy_chart_boundary *boundary;
     const sy_chart_marker *markers;
     size_t nmarkers;
+    const sy_chart_path *paths;   /* drawn above the lines, below markers */
+    size_t npaths;
 } sy_chart;
 
 typedef enum {
@@ -208,7 +224,11 @@ typedef enum {
     SY_CHART_BOX_TOF,             /* time-of-flight line label          */
     SY_CHART_BOX_BOUNDARY,        /* "Type I" / "Type II" text          */
     SY_CHART_BOX_MARKER,          /* marker symbol                      */
-    SY_CHART_BOX_MARKER_LABEL     /* marker text block                  */
+    SY_CHART_BOX_MARKER_LABEL,    /* marker text block                  */
+    SY_CHART_BOX_PATH,            /* a piece of a path's line (may cross
+                                     marker symbols: a path runs through
+                                     the points it marks)               */
+    SY_CHART_BOX_PATH_LABEL       /* path text block                    */
 } sy_chart_box_kind;
 
 /* An oriented rectangle in page points (origin top left, y down):

@@ -39,7 +39,20 @@ typedef struct {
     sy_branch branch;
     sy_transfer_opts opts;
     int threads;             /* 0: all cores                             */
+    /* Fields to store: bits SY_FIELD_BIT(SY_F_xxx); 0 means every field
+     * available.  Fields not asked for stay NULL in sy_grid.field. */
+    unsigned fields;
+    int kernel;              /* SY_KERNEL_*                              */
 } sy_grid_spec;
+
+#define SY_FIELD_BIT(f) (1u << (unsigned)(f))
+
+/* Cell kernel.  AUTO uses the vector kernel when the build has it and the
+ * grid is single-revolution (revs = 0), unless the environment variable
+ * SYNODIC_KERNEL=scalar asks for the scalar one; grids with revs >= 1
+ * always use the scalar solver.  Both give the same figures to about
+ * 1e-10 relative (tests/check_batch.c); fields are stored as float. */
+enum { SY_KERNEL_AUTO = 0, SY_KERNEL_SCALAR = 1, SY_KERNEL_VECTOR = 2 };
 
 typedef struct {
     sy_grid_spec spec;
@@ -49,13 +62,14 @@ typedef struct {
     unsigned char *type;        /* 1 or 2 (0 when no solution)           */
     double seconds_ephem;       /* time spent tabulating states          */
     double seconds_cells;       /* time spent solving cells              */
+    const char *kernel;         /* "scalar" or "vector ..." (what ran)   */
 } sy_grid;
 
 /* Build the grid spec of a study with its bodies. */
 sy_status sy_grid_spec_from_study(const sy_study *st, const sy_body *from,
                                   const sy_body *to, sy_grid_spec *spec,
                                   sy_error *err);
-/* Bytes a grid needs (all fields and work arrays). */
+/* Bytes a grid needs (the fields asked for and work arrays). */
 size_t sy_grid_bytes(const sy_grid_spec *spec);
 /* Progress callback: fraction done 0..1; return non-zero to cancel. */
 typedef int (*sy_progress_fn)(double fraction, void *user);

@@ -58,6 +58,8 @@ typedef struct {
     double levels[SY_MAX_LEVELS];    /* ascending, when !auto_levels     */
 } sy_chart_field;
 
+enum { SY_PERIOD_ARR_FIXED = 1, SY_PERIOD_ARR_FREE = 2 };
+
 enum { SY_FMT_PNG = 1, SY_FMT_SVG = 2, SY_FMT_PDF = 4, SY_FMT_CSV = 8,
        SY_FMT_JSON = 16 };
 
@@ -101,6 +103,20 @@ typedef struct {
     double tof_lines_days[SY_MAX_LEVELS];
     int filled;               /* 1: filled bands of the primary field   */
     int show_types;           /* draw the Type I / II boundary (def. 1) */
+    /* "mass" in [chart] fields: delivered-mass contours, derived from C3
+     * through the launch-vehicle capability (not a grid field). */
+    int chart_mass;
+    int mass_auto_levels;     /* 1 unless [chart] mass_levels is a list  */
+    size_t nmass_levels;
+    double mass_levels_kg[SY_MAX_LEVELS];
+
+    /* [period] */
+    double period_length_days; /* required launch period; NAN if absent */
+    unsigned period_arrival;   /* SY_PERIOD_ARR_* bits; default both      */
+
+    /* [launch_vehicle] */
+    char lv_capability[4096]; /* CSV, resolved against dir; "" if none  */
+    double spacecraft_mass_kg; /* NAN when absent                       */
 
     /* [output] */
     unsigned formats;         /* SY_FMT_* bits; default png|svg|pdf|csv|json */

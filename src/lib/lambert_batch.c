@@ -1,0 +1,579 @@
+/* lambert_batch.c - vectorised Lambert sweep for porkchop grids.
+ *
+ * The same method as the scalar solver (src/lib/lambert.c): D. Izzo,
+ * "Revisiting Lambert's problem", Celestial Mechanics and Dynamical
+ * Astronomy 121 (2015) 1-15, single revolution, prograde motion, with
+ * lambert.c's choices (lambda from |ir1 + ir2| for precision near 180 deg,
+ * sigma from |ir1 - ir2|, Battin's series within 0.05 of x = 1, psi from
+ * atan2 of sine and cosine expressions, a bracket of monotonicity).
+ * Then the figures of src/lib/transfer.c for the fields asked for.
+ *
+ * How it is vectorised.  A block of SY_BATCH_W problems is held in
+ * structure-of-arrays form and every step is a `#pragma omp simd` loop
+ * over the lanes, written without branches (selects only), so that gcc's
+ * auto-vectoriser turns each loop into vector code and calls glibc's
+ * vector math library (libmvec, the _ZGV* entry points) for atan2, asinh,
+ * acos, asin, pow and log.  Those functions are declared here with
+ * __attribute__((simd("notinbranch"))), which is what glibc's <math.h>
+ * itself does under -ffast-math; declaring them ourselves lets this file
+ * be compiled with only -fopenmp-simd -fno-math-errno (Makefile.am), so
+ * the arithmetic stays IEEE (no reassociation, no finite-math
+ * assumption: isnan/isfinite keep working).  The Householder iteration
+ * runs lane-wide: converged, failed and dead lanes are frozen by a mask
+ * (their x no longer changes), and dead lanes are given a harmless
+ * problem so the vector math never sees NaN, Inf or zero-length vectors.
+ * The block loops exactly SY_BATCH_W lanes, a multiple of every vector
+ * width used, so there is no scalar remainder loop: each lane's result
+ * is bit-identical whatever its position in the block.
+ *
+ * Differences from lambert.c, all far below the 1e-10 relative agreement
+ * checked by tests/check_batch.c:
+ *   - the iteration stops when the Householder step is below 1e-5
+ *     (relative to max(1, |x|)) and that step is taken: the method
+ *     converges with order four, so the error left is of order
+ *     (1e-5)^4 (see XTOL_STEP).  lambert.c evaluates T once more to
+ *     confirm, which a sweep cannot afford;
+ *   - the Battin series is summed with a fixed 20 terms (Horner), not
+ *     until a term drops below 1e-17 (see battin_q);
+ *   - the derivatives use 1/y and 1/(1 - x^2) from one shared division
+ *     (T itself is divided as in lambert.c);
+ *   - the hyperbolic psi = asinh(...) and the Battin series are only
+ *     evaluated in a block where some lane needs them;
+ *   - libmvec's functions are accurate to a few ulp, not the < 1 ulp of
+ *     the scalar libm.
+ *
+ * ISA: the kernel is compiled for x86-64-v4 (AVX-512), v3 (AVX2) and the
+ * baseline with gcc's target_clones; the loader picks the variant once
+ * (ifunc) for the CPU it runs on.  All variants do the same IEEE basic
+ * operations (-std=c11 implies -ffp-contract=off, so no fused
+ * multiply-add is introduced); they differ only in libmvec's variants.
+ */
+#include "config.h"
+#include "synodic.h"
+#include "synodic/grid.h"
+#include "lambert_batch.h"
+
+#include <math.h>
+#include <stddef.h>
+
+#ifndef M_PI
+#define M_PI 3.14159265358979323846
+#endif
+#ifndef M_LN2
+#define M_LN2 0.69314718055994530942
+#endif
+
+#if defined(SY_BATCH_KERNEL)
+
+/* libmvec entry points (see the note above). */
+#define SY_VEC_DECL __attribute__((simd("notinbranch")))
+SY_VEC_DECL double atan2(double, double);
+SY_VEC_DECL double asinh(double);
+SY_VEC_DECL double acos(double);
+SY_VEC_DECL double asin(double);
+SY_VEC_DECL double pow(double, double);
+SY_VEC_DECL double log(double);
+
+#if defined(__x86_64__) && defined(__GNUC__) && !defined(__clang__) && \
+    !defined(__SANITIZE_ADDRESS__)
+#define SY_CLONES __attribute__((target_clones("arch=x86-64-v4", "arch=x86-64-v3", "default")))
+#else
+#define SY_CLONES
+#endif
+
+#define W SY_BATCH_W
+#define LANES _Pragma("omp simd") for (int l = 0; l < W; l++)
+#define SY_PRAGMA(x) _Pragma(#x)
+#define LANES_SUM(v) SY_PRAGMA(omp simd reduction(+:v)) for (int l = 0; l < W; l++)
+
+/* As in lambert.c. */
+#define MAX_ITER 50
+/* Householder's method with derivatives to the third has convergence of
+ * order four (a textbook property, from memory: Householder 1970), so
+ * after a step of size d the error left is of order d^4: stopping once
+ * the step is below 1e-5 max(1, |x|) and taking it leaves ~1e-20.  The
+ * worst check_batch differences are the same with 1e-7, 1e-5 and 1e-4;
+ * from 1e-7 to 1e-5 the mean T evaluations per cell on the Earth-Mars
+ * bench grid drop from 2.52 to 2.09. */
+#define XTOL_STEP 1e-5
+#define XTOL 1e-13
+#define TTOL 4e-15
+#define BATTIN_DIST 0.05
+#define PLANE_EPS 1e-10
+#define BATTIN_TERMS 20
+/* plain selects, not fmin/fmax (libm calls under IEEE NaN rules) */
+#define VMIN(a, b) ((a) < (b) ? (a) : (b))
+#define VMAX(a, b) ((a) > (b) ? (a) : (b))
+
+typedef struct {
+    /* geometry */
+    double r1n[W], r2n[W], ir1[3][W], ir2[3][W], it1[3][W], it2[3][W];
+    double lam[W], oml2[W], s[W], c[W], sq12[W], tstar[W];
+    /* iteration */
+    double x[W], lo[W], hi[W];
+    double y[W], eta[W], u[W], sq[W], pa[W], pb[W], psi[W], tb[W];
+    double iy[W], iu[W];     /* 1/y and 1/u of the last T evaluation */
+    /* masks as 64-bit integers, the width of a double lane, so that every
+     * loop is single-width for the vectoriser */
+    long act[W], bad[W], battin[W], hyp[W], st[W], ty[W], nit[W];
+} work;
+
+/* Battin's Q(z) = 4/3 2F1(3, 1; 5/2; z) (Izzo): the series' term ratio is
+ * (3 + j)(1 + j) / ((5/2 + j)(j + 1)) z = (3 + j)/(5/2 + j) z, summed by
+ * Horner with a fixed count.  Where it is used, |x - 1| < 0.05, z =
+ * (1 - lambda - x eta)/2 stays within |z| <= 0.1025 (evaluated on a
+ * lambda x x lattice of [-1, 1] x [0.95, 1.05]); the ratio is then below
+ * 0.123, so after 20 terms the next is below 1e-18 of the sum (lambert.c
+ * stops at a term below 1e-17). */
+#define BQ(j) ((3.0 + (j)) / (2.5 + (j)))
+static const double battin_ratio[BATTIN_TERMS] = {
+    BQ(0), BQ(1), BQ(2), BQ(3), BQ(4), BQ(5), BQ(6), BQ(7), BQ(8), BQ(9),
+    BQ(10), BQ(11), BQ(12), BQ(13), BQ(14), BQ(15), BQ(16), BQ(17), BQ(18), BQ(19)};
+#undef BQ
+/* (the ratios are constant expressions, folded by the compiler: no
+ * division is left in the series) */
+static inline __attribute__((always_inline)) double battin_q(double z)
+{
+    double acc = 1.0;
+#pragma GCC unroll 20
+    for (int j = BATTIN_TERMS - 1; j >= 0; j--)
+        acc = 1.0 + battin_ratio[j] * z * acc;
+    return 4.0 / 3.0 * acc;
+}
+
+/* T(x) of the lanes in w->x (all lanes; dead ones are harmless), into t. */
+static inline __attribute__((always_inline)) void tof_pass(work *w, double *restrict t)
+{
+    long nb = 0, nh = 0;
+    LANES_SUM(nb) {
+        double x = w->x[l], lam = w->lam[l], oml2 = w->oml2[l];
+        double y = sqrt(oml2 + lam * lam * x * x);
+        double lx = lam * x;
+        /* eta = y - lambda x without cancellation (lambert.c lam_eta) */
+        double eta = lx > 0.0 ? oml2 / (y + lx) : y - lx;
+        double u = (1.0 - x) * (1.0 + x);
+        long b = fabs(x - 1.0) < BATTIN_DIST;
+        double sq = b ? 1.0 : sqrt(fabs(u));
+        /* 1/y and 1/u for the derivatives share one division, since a
+         * divide costs several multiplies on every vector unit.  They
+         * only steer the step (a few ulp there change nothing that is
+         * kept), whereas T itself is divided exactly as lambert.c does,
+         * so that the root agrees with the scalar path to rounding. */
+        double ryu = 1.0 / (y * u);
+        w->y[l] = y;
+        w->iy[l] = ryu * u;
+        w->iu[l] = ryu * y;
+        w->eta[l] = eta;
+        w->u[l] = u;
+        w->sq[l] = sq;
+        w->pa[l] = sq * eta;
+        w->pb[l] = x * y + lam * u;
+        w->battin[l] = b;
+        w->hyp[l] = (1 - b) & (long)!(u > 0.0);
+        nb += b;
+    }
+    LANES_SUM(nh) nh += w->hyp[l];
+    /* ellipse: psi = atan2(sqrt(1 - x^2) eta, x y + lambda (1 - x^2)) */
+    LANES w->psi[l] = atan2(w->pa[l], w->pb[l]);
+    if (nh) {
+        /* hyperbola: psi = asinh(sqrt(x^2 - 1) eta) */
+        LANES {
+            double ph = asinh(w->pa[l]);
+            w->psi[l] = w->hyp[l] ? ph : w->psi[l];
+        }
+    }
+    /* T = ((psi / sq) - x + lambda y) / (1 - x^2) (Izzo 2015; lambert.c) */
+    LANES {
+        t[l] = (w->psi[l] / w->sq[l] - w->x[l] + w->lam[l] * w->y[l]) / w->u[l];
+    }
+    if (nb) {
+        /* Battin's form near x = 1: T = (eta^3 Q + 4 lambda eta)/2 */
+        LANES {
+            double eta = w->eta[l], lam = w->lam[l];
+            double s1 = 0.5 * (1.0 - lam - w->x[l] * eta);
+            double z = w->battin[l] ? s1 : 0.0;
+            double tb = 0.5 * (eta * eta * eta * battin_q(z) + 4.0 * lam * eta);
+            t[l] = w->battin[l] ? tb : t[l];
+        }
+    }
+}
+
+SY_CLONES
+static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
+                        sy_batch_out *out)
+{
+    work wk, *w = &wk;
+    double t[W] __attribute__((aligned(64)));
+    const double mu = SY_GM_SUN_KM3_S2;
+
+    /* ---- dead lanes get a harmless problem (1 AU to 1.5 AU, 90 deg,
+     * 200 days), so every vector lane computes finite numbers ---- */
+    LANES {
+        w->act[l] = in->live[l] != 0;
+    }
+    LANES {
+        long live = w->act[l];
+        in->r1[0][l] = live ? in->r1[0][l] : SY_AU_KM;
+        in->r1[1][l] = live ? in->r1[1][l] : 0.0;
+        in->r1[2][l] = live ? in->r1[2][l] : 0.0;
+        in->r2[0][l] = live ? in->r2[0][l] : 0.0;
+        in->r2[1][l] = live ? in->r2[1][l] : 1.5 * SY_AU_KM;
+        in->r2[2][l] = live ? in->r2[2][l] : 0.0;
+        in->tof_s[l] = live ? in->tof_s[l] : 200.0 * SY_DAY_S;
+        in->vb1[0][l] = live ? in->vb1[0][l] : 0.0;
+        in->vb1[1][l] = live ? in->vb1[1][l] : 0.0;
+        in->vb1[2][l] = live ? in->vb1[2][l] : 0.0;
+        in->vb2[0][l] = live ? in->vb2[0][l] : 0.0;
+        in->vb2[1][l] = live ? in->vb2[1][l] : 0.0;
+        in->vb2[2][l] = live ? in->vb2[2][l] : 0.0;
+    }
+
+    /* ---- geometry (Izzo, Algorithm 1; lambert.c) ---- */
+    LANES {
+        double a0 = in->r1[0][l], a1 = in->r1[1][l], a2 = in->r1[2][l];
+        double b0 = in->r2[0][l], b1 = in->r2[1][l], b2 = in->r2[2][l];
+        double r1n = sqrt(a0 * a0 + a1 * a1 + a2 * a2);
+        double r2n = sqrt(b0 * b0 + b1 * b1 + b2 * b2);
+        double u0 = a0 / r1n, u1 = a1 / r1n, u2 = a2 / r1n;
+        double v0 = b0 / r2n, v1 = b1 / r2n, v2 = b2 / r2n;
+        double h0 = u1 * v2 - u2 * v1, h1 = u2 * v0 - u0 * v2, h2 = u0 * v1 - u1 * v0;
+        double hn = sqrt(h0 * h0 + h1 * h1 + h2 * h2);
+        long degen = (long)!(r1n > 0.0) | (long)!(r2n > 0.0) | (long)!(hn >= PLANE_EPS);
+        double ihn = degen ? 1.0 : 1.0 / hn;
+        h0 *= ihn; h1 *= ihn; h2 *= ihn;
+        double c0 = b0 - a0, c1 = b1 - a1, c2 = b2 - a2;
+        double c = sqrt(c0 * c0 + c1 * c1 + c2 * c2);
+        double s = 0.5 * (r1n + r2n + c);
+        double s0 = u0 + v0, s1 = u1 + v1, s2 = u2 + v2;
+        double sq12 = sqrt(r1n) * sqrt(r2n);
+        double lam = VMIN(1.0, sq12 * sqrt(s0 * s0 + s1 * s1 + s2 * s2) / (2.0 * s));
+        /* h_z < 0: prograde is the long way round */
+        double sg = h2 < 0.0 ? -1.0 : 1.0;
+        lam *= sg;
+        /* it = sg (ih x ir) */
+        w->it1[0][l] = sg * (h1 * u2 - h2 * u1);
+        w->it1[1][l] = sg * (h2 * u0 - h0 * u2);
+        w->it1[2][l] = sg * (h0 * u1 - h1 * u0);
+        w->it2[0][l] = sg * (h1 * v2 - h2 * v1);
+        w->it2[1][l] = sg * (h2 * v0 - h0 * v2);
+        w->it2[2][l] = sg * (h0 * v1 - h1 * v0);
+        w->ir1[0][l] = u0; w->ir1[1][l] = u1; w->ir1[2][l] = u2;
+        w->ir2[0][l] = v0; w->ir2[1][l] = v1; w->ir2[2][l] = v2;
+        w->r1n[l] = r1n;
+        w->r2n[l] = r2n;
+        w->c[l] = c;
+        w->s[l] = s;
+        w->sq12[l] = sq12;
+        w->lam[l] = degen ? 0.5 : lam;
+        w->oml2[l] = degen ? 0.75 : c / s;
+        w->tstar[l] = degen ? 3.0 : sqrt(2.0 * mu / (s * s * s)) * in->tof_s[l];
+        w->st[l] = degen ? SY_CELL_DEGENERATE : SY_CELL_OK;
+        w->act[l] = w->act[l] & (1 - degen);
+        w->bad[l] = 0;
+    }
+
+    /* ---- initial guess for M = 0 (Izzo; lambert.c) with one pow:
+     *   T >= T00: x0 = (T00/T)^(2/3) - 1
+     *   T <  T1 : x0 = 5/2 T1 (T1 - T)/(T (1 - lambda^5)) + 1
+     *   else    : x0 = (T/T00)^(ln 2 / ln(T1/T00)) - 1 ---- */
+    LANES w->psi[l] = acos(w->lam[l]);
+    LANES {
+        double lam = w->lam[l];
+        double t1 = 2.0 / 3.0 * (1.0 - lam * lam * lam);
+        w->pb[l] = t1 > 0.0 ? t1 : 1.0;
+    }
+    LANES w->pa[l] = log(w->pb[l] / (w->psi[l] + w->lam[l] * sqrt(w->oml2[l])));
+    LANES {
+        double lam = w->lam[l], ts = w->tstar[l];
+        double t00 = w->psi[l] + lam * sqrt(w->oml2[l]);
+        long ca = ts >= t00;
+        double base = ca ? t00 / ts : ts / t00;
+        double la = w->pa[l];
+        double ex = ca ? 2.0 / 3.0 : (la < 0.0 ? M_LN2 / la : 1.0);
+        w->y[l] = base;
+        w->eta[l] = ex;
+    }
+    LANES w->u[l] = pow(w->y[l], w->eta[l]);
+    LANES {
+        double lam = w->lam[l], ts = w->tstar[l];
+        double t00 = w->psi[l] + lam * sqrt(w->oml2[l]);
+        double t1 = 2.0 / 3.0 * (1.0 - lam * lam * lam);
+        double xb = 2.5 * t1 * (t1 - ts) / (ts * (1.0 - lam * lam * lam * lam * lam)) + 1.0;
+        double x0 = ts >= t00 ? w->u[l] - 1.0 : (ts < t1 ? xb : w->u[l] - 1.0);
+        /* bracket (-1, +inf): T decreases monotonically for M = 0 */
+        x0 = (x0 > -1.0) & (x0 < INFINITY) ? x0 : 3.0;
+        w->x[l] = x0;
+        w->lo[l] = -1.0;
+        w->hi[l] = INFINITY;
+        w->nit[l] = 0;
+    }
+
+    /* ---- Householder iterations, lane-wide with masks ---- */
+    int it = 0;
+    long nact = 1;
+    for (it = 1; it <= MAX_ITER && nact; it++) {
+        tof_pass(w, t);
+        nact = 0;
+        LANES_SUM(nact) {
+            long a = w->act[l];
+            double x = w->x[l], lam = w->lam[l], oml2 = w->oml2[l];
+            double tt = t[l], ts = w->tstar[l];
+            double f = tt - ts;
+            long fin = fabs(tt) < INFINITY;
+            long done_f = fabs(f) <= TTOL * ts;
+            /* bracket: T decreasing, root above x when f > 0 */
+            double lo = f > 0.0 ? x : w->lo[l];
+            double hi = f > 0.0 ? w->hi[l] : x;
+            /* derivatives (Izzo; lambert.c lam_dtdx) */
+            double iy = w->iy[l], iy2 = iy * iy;
+            double iu = w->iu[l];
+            double l2 = lam * lam, l3 = l2 * lam;
+            double d1 = (3.0 * tt * x - 2.0 + 2.0 * l3 * x * iy) * iu;
+            double d2 = (3.0 * tt + 5.0 * x * d1 + 2.0 * oml2 * l3 * iy2 * iy) * iu;
+            double d3 = (7.0 * x * d2 + 8.0 * d1 -
+                         6.0 * oml2 * l2 * l3 * x * iy2 * iy2 * iy) * iu;
+            double d1s = d1 * d1;
+            double num = f * (d1s - 0.5 * f * d2);
+            double den = d1 * (d1s - f * d2) + d3 * f * f * (1.0 / 6.0);
+            double xn = x - num / den;
+            long xfin = fabs(xn) < INFINITY;
+            double ax = VMAX(1.0, fabs(x));
+            long inb = (xn > lo) & (xn < hi);
+            long done_x = xfin & (fabs(xn - x) <= XTOL_STEP * ax);
+            double xs = inb ? xn : x;
+            long hfin = hi < INFINITY;
+            double xbis = hfin ? 0.5 * (lo + hi) : 2.0 * fabs(lo) + 1.0;
+            double xnext = (xfin & inb) ? xn : xbis;
+            long done_b = hfin & (hi - lo <= XTOL * VMAX(1.0, fabs(xnext)));
+            /* priority as in lambert.c: non-finite T fails; |f| small
+             * keeps x; a small step takes it; else bisect if needed */
+            double xr = done_f ? x : (done_x ? xs : xnext);
+            long stop = (1 - fin) | done_f | done_x | done_b;
+            w->bad[l] = w->bad[l] | (a & (1 - fin));
+            w->x[l] = (a & fin) ? xr : x;
+            w->lo[l] = a ? lo : w->lo[l];
+            w->hi[l] = a ? hi : w->hi[l];
+            long still = a & (1 - stop);
+            w->nit[l] += a;
+            w->act[l] = still;
+            nact += still;
+        }
+    }
+    out->iterations = it - 1;
+    /* lanes still active after MAX_ITER did not converge */
+    LANES w->bad[l] = w->bad[l] | w->act[l];
+
+    /* ---- velocities (Izzo, Algorithm 1; lambert.c) and the figures ---- */
+    const unsigned fm = ctx->fields;
+    const double eps = SY_OBLIQUITY_J2000_ARCSEC / 3600.0 * (M_PI / 180.0);
+    const double ce = cos(eps), se = sin(eps);
+    const double rad2deg = 180.0 / M_PI;
+    LANES {
+        double x = w->x[l], lam = w->lam[l];
+        double s = w->s[l], c = w->c[l], r1n = w->r1n[l], r2n = w->r2n[l];
+        double gamma = sqrt(0.5 * mu * s);
+        double rho = (r1n - r2n) / c;
+        double d0 = w->ir1[0][l] - w->ir2[0][l], d1 = w->ir1[1][l] - w->ir2[1][l],
+               d2 = w->ir1[2][l] - w->ir2[2][l];
+        double sigma = VMIN(1.0, w->sq12[l] * sqrt(d0 * d0 + d1 * d1 + d2 * d2) / c);
+        double y = sqrt(w->oml2[l] + lam * lam * x * x);
+        double vr1 = gamma * ((lam * y - x) - rho * (lam * y + x)) / r1n;
+        double vr2 = -gamma * ((lam * y - x) + rho * (lam * y + x)) / r2n;
+        double vt = gamma * sigma * (y + lam * x);
+        double vt1 = vt / r1n, vt2 = vt / r2n;
+        double p0 = vr1 * w->ir1[0][l] + vt1 * w->it1[0][l];
+        double p1 = vr1 * w->ir1[1][l] + vt1 * w->it1[1][l];
+        double p2 = vr1 * w->ir1[2][l] + vt1 * w->it1[2][l];
+        double q0 = vr2 * w->ir2[0][l] + vt2 * w->it2[0][l];
+        double q1 = vr2 * w->ir2[1][l] + vt2 * w->it2[1][l];
+        double q2 = vr2 * w->ir2[2][l] + vt2 * w->it2[2][l];
+        out->v1[0][l] = p0; out->v1[1][l] = p1; out->v1[2][l] = p2;
+        out->v2[0][l] = q0; out->v2[1][l] = q1; out->v2[2][l] = q2;
+        double e0 = p0 - in->vb1[0][l], e1 = p1 - in->vb1[1][l], e2 = p2 - in->vb1[2][l];
+        double g0 = q0 - in->vb2[0][l], g1 = q1 - in->vb2[1][l], g2 = q2 - in->vb2[2][l];
+        double c3 = e0 * e0 + e1 * e1 + e2 * e2;
+        double c3a = g0 * g0 + g1 * g1 + g2 * g2;
+        /* non-finite velocities (lambert.c) or C3 (transfer.c): no
+         * convergence; finite velocities give finite C3 barring overflow */
+        long fin = (fabs(p0) < INFINITY) & (fabs(p1) < INFINITY) & (fabs(p2) < INFINITY) &
+                   (fabs(q0) < INFINITY) & (fabs(q1) < INFINITY) & (fabs(q2) < INFINITY) &
+                   (c3 < INFINITY) & (c3a < INFINITY);
+        long okst = w->st[l] == SY_CELL_OK;
+        long ok = okst & (1 - w->bad[l]) & fin;
+        w->st[l] = (okst & (1 - ok)) ? SY_CELL_NOCONV : w->st[l];
+        /* type from the sign of r1 x r2 (transfer.c) */
+        double hz = in->r1[0][l] * in->r2[1][l] - in->r1[1][l] * in->r2[0][l];
+        double cth = (in->r1[0][l] * in->r2[0][l] + in->r1[1][l] * in->r2[1][l] +
+                      in->r1[2][l] * in->r2[2][l]) / (r1n * r2n);
+        cth = VMAX(-1.0, VMIN(1.0, cth));
+        w->ty[l] = (hz >= 0.0) & (cth > -1.0) ? 1 : 2;
+        w->pa[l] = cth;
+        w->pb[l] = hz;
+        w->u[l] = c3;
+        w->y[l] = c3a;
+        w->eta[l] = sqrt(c3a);
+        /* cheap figures are stored for every lane (no masked stores) */
+        out->f[SY_F_C3][l] = c3;
+        out->f[SY_F_VINF_DEP][l] = sqrt(c3);
+        out->f[SY_F_VINF_ARR][l] = w->eta[l];
+        out->f[SY_F_C3_ARR][l] = c3a;
+        out->f[SY_F_TOF][l] = in->tof_s[l] / SY_DAY_S;
+    }
+    if (fm & (1u << SY_F_ANGLE)) {
+        LANES {
+            double th = acos(w->pa[l]);
+            th = w->pb[l] < 0.0 ? 2.0 * M_PI - th : th;
+            out->f[SY_F_ANGLE][l] = th * rad2deg;
+            w->psi[l] = th;
+        }
+    }
+    /* asymptote declination / right ascension in EME2000 (transfer.c
+     * sy_asymptote_radec; frames.c rotation) */
+    for (int end = 0; end < 2; end++) {
+        int fd = end ? SY_F_DAP : SY_F_DLA, fr = end ? SY_F_RAP : SY_F_RLA;
+        if (!(fm & ((1u << fd) | (1u << fr)))) continue;
+        double (*v)[W] = end ? out->v2 : out->v1;
+        double (*vb)[W] = end ? in->vb2 : in->vb1;
+        LANES {
+            double ex = v[0][l] - vb[0][l], ey = v[1][l] - vb[1][l], ez = v[2][l] - vb[2][l];
+            double qx = ex, qy = ce * ey - se * ez, qz = se * ey + ce * ez;
+            double n = sqrt(qx * qx + qy * qy + qz * qz);
+            double sn = n == 0.0 ? 0.0 : qz / n;
+            sn = VMAX(-1.0, VMIN(1.0, sn));
+            w->pa[l] = sn;
+            w->tb[l] = n == 0.0 ? 0.0 : qx;
+            w->hi[l] = n == 0.0 ? 0.0 : qy;
+        }
+        if (fm & (1u << fd)) {
+            LANES out->f[fd][l] = asin(w->pa[l]) * rad2deg;
+        }
+        if (fm & (1u << fr)) {
+            LANES {
+            double ra = atan2(w->hi[l], w->tb[l]) * rad2deg;
+            ra = ra < 0.0 ? ra + 360.0 : ra;
+            ra = ra >= 360.0 ? ra - 360.0 : ra;
+            out->f[fr][l] = ra;
+            }
+        }
+    }
+    if (fm & (1u << SY_F_MIN_SUN)) {
+        /* closest approach to the Sun along the arc (transfer.c
+         * min_sun_distance_km, revs = 0) */
+        LANES {
+            double r0 = in->r1[0][l], r1 = in->r1[1][l], r2 = in->r1[2][l];
+            double v0 = out->v1[0][l], v1 = out->v1[1][l], v2 = out->v1[2][l];
+            double r1n = sqrt(r0 * r0 + r1 * r1 + r2 * r2);
+            double h0 = r1 * v2 - r2 * v1, h1 = r2 * v0 - r0 * v2, h2 = r0 * v1 - r1 * v0;
+            double q0 = v1 * h2 - v2 * h1, q1 = v2 * h0 - v0 * h2, q2 = v0 * h1 - v1 * h0;
+            double e0 = q0 / mu - r0 / r1n, e1 = q1 / mu - r1 / r1n, e2 = q2 / mu - r2 / r1n;
+            double e = sqrt(e0 * e0 + e1 * e1 + e2 * e2);
+            double p = (h0 * h0 + h1 * h1 + h2 * h2) / mu;
+            double rp = p / (1.0 + e);
+            double r2n = w->r2n[l];
+            double rend = r1n < r2n ? r1n : r2n;
+            double cn = (e0 * r0 + e1 * r1 + e2 * r2) / ((e < 1e-12 ? 1.0 : e) * r1n);
+            cn = VMAX(-1.0, VMIN(1.0, cn));
+            w->lo[l] = cn;
+            w->hi[l] = rp < rend ? rp : rend;
+            w->tb[l] = rend;
+            w->sq[l] = e;
+            w->c[l] = r0 * v0 + r1 * v1 + r2 * v2;
+        }
+        if (!(fm & (1u << SY_F_ANGLE))) {
+            LANES {
+                double th = acos(w->pa[l]);
+                w->psi[l] = w->pb[l] < 0.0 ? 2.0 * M_PI - th : th;
+            }
+        }
+        LANES {
+            double nu1 = acos(w->lo[l]);
+            nu1 = w->c[l] < 0.0 ? 2.0 * M_PI - nu1 : nu1;
+            double d = nu1 + w->psi[l] >= 2.0 * M_PI ? w->hi[l] : w->tb[l];
+            d = w->sq[l] < 1e-12 ? w->tb[l] : d;
+            out->f[SY_F_MIN_SUN][l] = d / SY_AU_KM;
+        }
+    }
+    /* delta-v and entry speed (transfer.c, common practice formulas) */
+    for (int l = 0; l < W; l++) {
+        out->status[l] = (unsigned char)w->st[l];
+        out->type[l] = (unsigned char)w->ty[l];
+        out->iters[l] = (unsigned char)w->nit[l];
+    }
+    const unsigned dvbits = (1u << SY_F_DV_DEP) | (1u << SY_F_DV_CAP) |
+                            (1u << SY_F_DV_TOTAL) | (1u << SY_F_V_ENTRY);
+    if (fm & dvbits) {
+        /* unused ends get unit stand-ins so the math stays finite */
+        const int okd = ctx->gm_from > 0.0 && ctx->r_park_km > 0.0;
+        const int okc = ctx->gm_to > 0.0 && ctx->r_cap_peri_km > 0.0 &&
+                        ctx->r_cap_apo_km > 0.0 && ctx->r_entry_km > 0.0;
+        const double g1 = okd ? ctx->gm_from : 1.0, rpk = okd ? ctx->r_park_km : 1.0;
+        const double g2 = okc ? ctx->gm_to : 1.0, rp = okc ? ctx->r_cap_peri_km : 1.0;
+        const double ra = okc ? ctx->r_cap_apo_km : 1.0, re = okc ? ctx->r_entry_km : 1.0;
+        const double vcirc = sqrt(g1 / rpk);
+        const double vell = sqrt(2.0 * g2 / rp * ra / (ra + rp));
+        LANES {
+            double c3 = w->u[l], va = w->eta[l];
+            double dd = sqrt(c3 + 2.0 * g1 / rpk) - vcirc;
+            double dc = sqrt(va * va + 2.0 * g2 / rp) - vell;
+            out->f[SY_F_DV_DEP][l] = dd;
+            out->f[SY_F_DV_CAP][l] = dc;
+            out->f[SY_F_DV_TOTAL][l] = dd + dc;
+            out->f[SY_F_V_ENTRY][l] = sqrt(va * va + 2.0 * g2 / re);
+        }
+    }
+    /* lanes without a solution (dead, degenerate, not converged) carry
+     * NaN in the fields asked for, so that the caller stores a block with
+     * a plain conversion loop */
+    LANES w->bad[l] = (in->live[l] != 0) & (w->st[l] == SY_CELL_OK);
+    for (int f = 0; f < SY_NFIELDS; f++) {
+        if (!(fm & (1u << f))) continue;
+        double *v = out->f[f];
+        LANES v[l] = w->bad[l] ? v[l] : NAN;
+    }
+}
+
+int sy_batch_available(void)
+{
+    return 1;
+}
+
+const char *sy_batch_isa(void)
+{
+#if defined(__x86_64__) && defined(__GNUC__) && !defined(__clang__) && \
+    !defined(__SANITIZE_ADDRESS__)
+    __builtin_cpu_init();
+    if (__builtin_cpu_supports("x86-64-v4")) return "vector x86-64-v4 (AVX-512)";
+    if (__builtin_cpu_supports("x86-64-v3")) return "vector x86-64-v3 (AVX2)";
+    return "vector x86-64 (SSE2)";
+#else
+    return "vector";
+#endif
+}
+
+void sy_batch_solve(const sy_batch_ctx *ctx, sy_batch_in *in,
+                    sy_batch_out *out)
+{
+    solve_block(ctx, in, out);
+}
+
+#else /* !SY_BATCH_KERNEL: configure found no vector toolchain */
+
+int sy_batch_available(void)
+{
+    return 0;
+}
+
+const char *sy_batch_isa(void)
+{
+    return "none";
+}
+
+void sy_batch_solve(const sy_batch_ctx *ctx, sy_batch_in *in,
+                    sy_batch_out *out)
+{
+    (void)ctx;
+    (void)in;
+    (void)out;
+}
+
+#endif
