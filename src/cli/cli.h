@@ -64,6 +64,21 @@ int cli_parse_branch(const char *text, sy_branch *b);
 int cli_catalog(const char *bodies_path, sy_catalog **cat);
 int cli_find_body(const sy_catalog *cat, const char *name, const sy_body **b);
 
+/* Install the interrupt handling every command shares: SIGINT, SIGTERM
+ * and SIGHUP are blocked in every thread and taken by one waiting thread,
+ * which removes the temporary outputs (sy_outfile_abort_all) and exits
+ * with CLI_EXIT_SIGNAL; finished outputs stay intact.  Call first thing
+ * in main(), before any other thread exists, so they all inherit the
+ * blocked mask.  SIGXFSZ is ignored so a full file-size limit shows up as
+ * a write error. */
+void cli_catch_signals(void);
+/* The output directory must exist, or be creatable in an existing one. */
+int cli_ensure_dir(const char *dir);
+/* A comma list of png, svg, pdf, csv, json as SY_FMT_* bits. */
+int cli_parse_formats(const char *text, unsigned *out);
+/* sy_progress_fn drawing a bar on stderr; user points to an int set to -1. */
+int cli_progress_bar(double fraction, void *user);
+
 json_t *cli_json_vec3(const double v[3]);
 /* Print JSON on stdout followed by a newline; steals the reference. */
 int cli_print_json(json_t *root);

@@ -11,7 +11,6 @@
 #include <errno.h>
 #include <getopt.h>
 #include <math.h>
-#include <signal.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
@@ -33,65 +32,9 @@ void usage_chart(FILE *out)
             "Study files are described in synodic(1); see examples/ for three.\n");
 }
 
-static void on_signal(int sig)
-{
-    /* Remove every temporary output; finished outputs stay intact. */
-    sy_outfile_abort_all();
-    static const char msg[] = "synodic: error: interrupted; no output was left half-written\n";
-    ssize_t w = write(STDERR_FILENO, msg, sizeof msg - 1);
-    (void)w;
-    (void)sig;
-    _exit(CLI_EXIT_SIGNAL);
-}
 
-static int progress_bar(double frac, void *user)
-{
-    int *last = user;
-    int pct = (int)(frac * 100.0);
-    if (pct == *last) return 0;
-    *last = pct;
-    char bar[41];
-    int n = pct * 40 / 100;
-    for (int k = 0; k < 40; k++) bar[k] = k < n ? '#' : '.';
-    bar[40] = '\0';
-    fprintf(stderr, "\r  grid [%s] %3d%%", bar, pct);
-    if (pct >= 100) fputc('\n', stderr);
-    return 0;
-}
 
-static int parse_formats(const char *text, unsigned *out)
-{
-    unsigned f = 0;
-    char buf[256];
-    snprintf(buf, sizeof buf, "%s", text);
-    for (char *tok = strtok(buf, ", "); tok; tok = strtok(NULL, ", ")) {
-        if (strcmp(tok, "png") == 0) f |= SY_FMT_PNG;
-        else if (strcmp(tok, "svg") == 0) f |= SY_FMT_SVG;
-        else if (strcmp(tok, "pdf") == 0) f |= SY_FMT_PDF;
-        else if (strcmp(tok, "csv") == 0) f |= SY_FMT_CSV;
-        else if (strcmp(tok, "json") == 0) f |= SY_FMT_JSON;
-        else return cli_error(CLI_EXIT_INPUT, "--format: unknown format '%s'; use a comma list of png, svg, pdf, csv, json", tok);
-    }
-    if (!f) return cli_error(CLI_EXIT_INPUT, "--format: no format given; use a comma list of png, svg, pdf, csv, json");
-    *out = f;
-    return 0;
-}
 
-/* The output directory must exist or be creatable inside an existing one. */
-static int ensure_dir(const char *dir)
-{
-    struct stat sb;
-    if (stat(dir, &sb) == 0) {
-        if (!S_ISDIR(sb.st_mode))
-            return cli_error(CLI_EXIT_IO, "output directory %s is not a directory; choose another with -o", dir);
-        if (access(dir, W_OK) != 0)
-            return cli_error(CLI_EXIT_IO, "output directory %s is not writable; choose another with -o", dir);
-        return 0;
-    }
-    if (mkdir(dir, 0777) != 0)
-        return cli_error(CLI_EXIT_IO, "cannot create output directory %s: %s; create its parent or choose another with -o", dir, strerror(errno));
-    return 0;
-}
 
 static void print_optimum(const sy_optimum *o)
 {
@@ -136,15 +79,12 @@ int cmd_chart(int argc, char **argv)
      * (and removes any temporary); a file-size limit (ulimit -f) must be
      * a reported write error (EFBIG, removing the temporary), not a kill
      * by SIGXFSZ. */
-    signal(SIGINT, on_signal);
-    signal(SIGTERM, on_signal);
-    signal(SIGXFSZ, SIG_IGN);
     opterr = 0;
     while ((c = getopt_long(argc, argv, ":o:", longopts, NULL)) != -1) {
         switch (c) {
         case 'o': outdir = optarg; break;
         case 's': sets[nsets++] = optarg; break;
-        case 'f': rc = parse_formats(optarg, &formats); break;
+        case 'f': rc = cli_parse_formats(optarg, &formats); break;
         case 't': rc = cli_parse_int("--threads", optarg, 1, 1024, &threads); break;
         case 'q': quiet = 1; break;
         case 'h': usage_chart(stdout); free(sets); return CLI_EXIT_OK;
@@ -185,11 +125,11 @@ int cmd_chart(int argc, char **argv)
         goto out;
     }
     spec.threads = threads;
-    if ((rc = ensure_dir(st->out_dir))) goto out;
+    if ((rc = cli_ensure_dir(st->out_dir))) goto out;
 
     int last = -1;
     int show = !quiet && isatty(STDERR_FILENO) && spec.nx * spec.ny >= 200000;
-    s = sy_grid_compute(&spec, show ? progress_bar : NULL, &last, &g, &err);
+    s = sy_grid_compute(&spec, show ? cli_progress_bar : NULL, &last, &g, &err);
     if (s != SY_OK) { rc = cli_error(cli_exit_for(s), "%s", err.msg); goto out; }
 
     /* Optima: minimum C3 of each transfer type (both are flown), then the

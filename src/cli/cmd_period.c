@@ -15,7 +15,6 @@
 #include <errno.h>
 #include <getopt.h>
 #include <math.h>
-#include <signal.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
@@ -45,30 +44,7 @@ void usage_period(FILE *out)
             "mass per day and, with spacecraft_mass_kg, the period's mass margin.\n");
 }
 
-static void on_signal(int sig)
-{
-    sy_outfile_abort_all();
-    static const char msg[] = "synodic: error: interrupted; no output was left half-written\n";
-    ssize_t w = write(STDERR_FILENO, msg, sizeof msg - 1);
-    (void)w;
-    (void)sig;
-    _exit(CLI_EXIT_SIGNAL);
-}
 
-static int ensure_dir(const char *dir)
-{
-    struct stat sb;
-    if (stat(dir, &sb) == 0) {
-        if (!S_ISDIR(sb.st_mode))
-            return cli_error(CLI_EXIT_IO, "output directory %s is not a directory; choose another with -o", dir);
-        if (access(dir, W_OK) != 0)
-            return cli_error(CLI_EXIT_IO, "output directory %s is not writable; choose another with -o", dir);
-        return 0;
-    }
-    if (mkdir(dir, 0777) != 0)
-        return cli_error(CLI_EXIT_IO, "cannot create output directory %s: %s; create its parent or choose another with -o", dir, strerror(errno));
-    return 0;
-}
 
 /* One computed period with what it answers. */
 typedef struct {
@@ -338,10 +314,8 @@ int cmd_period(int argc, char **argv)
                        "use --arrival free or give an [arrival] window", st->path);
         goto out;
     }
-    if ((rc = ensure_dir(st->out_dir))) goto out;
+    if ((rc = cli_ensure_dir(st->out_dir))) goto out;
 
-    signal(SIGINT, on_signal);
-    signal(SIGTERM, on_signal);
     if ((s = sy_grid_compute(&spec, NULL, NULL, &g, &err)) != SY_OK) {
         rc = cli_error(cli_exit_for(s), "%s", err.msg);
         goto out;

@@ -11,7 +11,6 @@
 #include <errno.h>
 #include <getopt.h>
 #include <math.h>
-#include <signal.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
@@ -52,30 +51,7 @@ void usage_windows(FILE *out)
             "  --help             show this help\n");
 }
 
-static void on_signal(int sig)
-{
-    sy_outfile_abort_all();
-    static const char msg[] = "synodic: error: interrupted; no output was left half-written\n";
-    ssize_t w = write(STDERR_FILENO, msg, sizeof msg - 1);
-    (void)w;
-    (void)sig;
-    _exit(CLI_EXIT_SIGNAL);
-}
 
-static int ensure_dir(const char *dir)
-{
-    struct stat sb;
-    if (stat(dir, &sb) == 0) {
-        if (!S_ISDIR(sb.st_mode))
-            return cli_error(CLI_EXIT_IO, "output directory %s is not a directory; choose another with -o", dir);
-        if (access(dir, W_OK) != 0)
-            return cli_error(CLI_EXIT_IO, "output directory %s is not writable; choose another with -o", dir);
-        return 0;
-    }
-    if (mkdir(dir, 0777) != 0)
-        return cli_error(CLI_EXIT_IO, "cannot create output directory %s: %s; create its parent or choose another with -o", dir, strerror(errno));
-    return 0;
-}
 
 static json_t *jnum(double v) { return isfinite(v) ? json_real(v) : json_null(); }
 static double r2(double v) { return nearbyint(v * 100.0) / 100.0; }
@@ -104,7 +80,7 @@ static int print_quick_json(const sy_windows *w)
 /* Every output of a scan into st->out_dir; lists what was written. */
 static int write_outputs(const sy_windows *w, const sy_study *st, char (*written)[8800], int *nwritten)
 {
-    int rc = ensure_dir(st->out_dir);
+    int rc = cli_ensure_dir(st->out_dir);
     if (rc) return rc;
     int nw = 0;
     char path[8800];
@@ -287,8 +263,6 @@ int cmd_windows(int argc, char **argv)
             goto out;
         }
     if (!quick || outdir) {
-        signal(SIGINT, on_signal);
-        signal(SIGTERM, on_signal);
     }
     if ((rc = run_scan(&spec, st, &w))) goto out;
     if (json) {

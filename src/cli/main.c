@@ -41,6 +41,7 @@ static const cli_command *find(const char *name)
 
 int main(int argc, char **argv)
 {
+    cli_catch_signals();
     if (argc < 2) {
         usage(stderr);
         return CLI_EXIT_USAGE;

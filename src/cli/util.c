@@ -2,11 +2,18 @@
 #include "config.h"
 #include "cli.h"
 
+#include "synodic/io.h"
+#include "synodic/study.h"
+
 #include <errno.h>
 #include <math.h>
+#include <pthread.h>
+#include <signal.h>
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
 
 int cli_error(int code, const char *fmt, ...)
 {
@@ -147,4 +154,95 @@ int cli_print_json(json_t *root)
     if (!ok || fflush(stdout) != 0)
         return cli_error(CLI_EXIT_IO, "cannot write to standard output");
     return CLI_EXIT_OK;
+}
+
+static sigset_t interrupt_set(void)
+{
+    sigset_t set;
+    sigemptyset(&set);
+    sigaddset(&set, SIGINT);
+    sigaddset(&set, SIGTERM);
+    sigaddset(&set, SIGHUP);
+    return set;
+}
+
+/* The one thread that receives the interrupts.  It runs as an ordinary
+ * thread (sigwait, not a handler), so it may take sy_outfile's lock: the
+ * temporaries are then removed while no output is being created or
+ * renamed, and the process ends before any other output can start. */
+static void *interrupt_thread(void *arg)
+{
+    (void)arg;
+    sigset_t set = interrupt_set();
+    int sig = 0;
+    while (sigwait(&set, &sig) != 0) {
+    }
+    sy_outfile_abort_all();
+    static const char msg[] = "synodic: error: interrupted; no output was left half-written\n";
+    ssize_t w = write(STDERR_FILENO, msg, sizeof msg - 1);
+    (void)w;
+    _exit(CLI_EXIT_SIGNAL);
+    return NULL;
+}
+
+void cli_catch_signals(void)
+{
+    signal(SIGXFSZ, SIG_IGN);
+    sigset_t set = interrupt_set();
+    if (pthread_sigmask(SIG_BLOCK, &set, NULL) != 0) return;
+    pthread_t t;
+    pthread_attr_t attr;
+    pthread_attr_init(&attr);
+    pthread_attr_setdetachstate(&attr, PTHREAD_CREATE_DETACHED);
+    if (pthread_create(&t, &attr, interrupt_thread, NULL) != 0)
+        pthread_sigmask(SIG_UNBLOCK, &set, NULL); /* default action then */
+    pthread_attr_destroy(&attr);
+}
+
+int cli_ensure_dir(const char *dir)
+{
+    struct stat sb;
+    if (stat(dir, &sb) == 0) {
+        if (!S_ISDIR(sb.st_mode))
+            return cli_error(CLI_EXIT_IO, "output directory %s is not a directory; choose another with -o", dir);
+        if (access(dir, W_OK) != 0)
+            return cli_error(CLI_EXIT_IO, "output directory %s is not writable; choose another with -o", dir);
+        return 0;
+    }
+    if (mkdir(dir, 0777) != 0)
+        return cli_error(CLI_EXIT_IO, "cannot create output directory %s: %s; create its parent or choose another with -o", dir, strerror(errno));
+    return 0;
+}
+
+int cli_parse_formats(const char *text, unsigned *out)
+{
+    unsigned f = 0;
+    char buf[256];
+    snprintf(buf, sizeof buf, "%s", text);
+    for (char *tok = strtok(buf, ", "); tok; tok = strtok(NULL, ", ")) {
+        if (strcmp(tok, "png") == 0) f |= SY_FMT_PNG;
+        else if (strcmp(tok, "svg") == 0) f |= SY_FMT_SVG;
+        else if (strcmp(tok, "pdf") == 0) f |= SY_FMT_PDF;
+        else if (strcmp(tok, "csv") == 0) f |= SY_FMT_CSV;
+        else if (strcmp(tok, "json") == 0) f |= SY_FMT_JSON;
+        else return cli_error(CLI_EXIT_INPUT, "--format: unknown format '%s'; use a comma list of png, svg, pdf, csv, json", tok);
+    }
+    if (!f) return cli_error(CLI_EXIT_INPUT, "--format: no format given; use a comma list of png, svg, pdf, csv, json");
+    *out = f;
+    return 0;
+}
+
+int cli_progress_bar(double frac, void *user)
+{
+    int *last = user;
+    int pct = (int)(frac * 100.0);
+    if (pct == *last) return 0;
+    *last = pct;
+    char bar[41];
+    int n = pct * 40 / 100;
+    for (int k = 0; k < 40; k++) bar[k] = k < n ? '#' : '.';
+    bar[40] = '\0';
+    fprintf(stderr, "\r  grid [%s] %3d%%", bar, pct);
+    if (pct >= 100) fputc('\n', stderr);
+    return 0;
 }

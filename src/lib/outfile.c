@@ -6,17 +6,20 @@
 
 #include <errno.h>
 #include <pthread.h>
-#include <signal.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
-/* Registry of open temporaries so that a signal handler can remove them.
- * Written only from the main thread; a signal handler only reads it. */
+/* Registry of open temporaries, so that an interrupt can remove them.
+ * Creating a temporary and registering it, renaming it into place and
+ * deregistering it, all happen under `lock`; sy_outfile_abort_all() takes
+ * the same lock, so it can never run between the creation of a file and
+ * its registration, nor between a rename and the bookkeeping after it. */
 #define SY_MAX_OPEN_OUTFILES 64
-static sy_outfile *volatile open_files[SY_MAX_OPEN_OUTFILES];
+static sy_outfile *open_files[SY_MAX_OPEN_OUTFILES];
+static pthread_mutex_t lock = PTHREAD_MUTEX_INITIALIZER;
 
 static void registry_add(sy_outfile *of)
 {
@@ -37,25 +40,17 @@ int sy_outfile_open(sy_outfile *of, const char *path, void *errp)
     if (strlen(path) + 16 >= sizeof of->tmp)
         return sy_fail(err, SY_ERR_ARG, "output path too long: %s", path);
     snprintf(of->path, sizeof of->path, "%s", path);
+    pthread_mutex_lock(&lock);
     snprintf(of->tmp, sizeof of->tmp, "%s.tmp.XXXXXX", path);
-    /* Hold SIGINT/SIGTERM from the creation of the temporary until it is
-     * in the registry, so that an interrupt in between cannot leave it
-     * behind (the handler removes only registered temporaries). */
-    sigset_t block, old;
-    sigemptyset(&block);
-    sigaddset(&block, SIGINT);
-    sigaddset(&block, SIGTERM);
-    sigaddset(&block, SIGHUP);
-    pthread_sigmask(SIG_BLOCK, &block, &old);
     int fd = mkstemp(of->tmp);
     if (fd < 0) {
         int e = errno;
         of->tmp[0] = '\0';
-        pthread_sigmask(SIG_SETMASK, &old, NULL);
+        pthread_mutex_unlock(&lock);
         return sy_fail(err, SY_ERR_IO, "cannot create %s: %s (check that the directory exists and is writable)", path, strerror(e));
     }
     registry_add(of);
-    pthread_sigmask(SIG_SETMASK, &old, NULL);
+    pthread_mutex_unlock(&lock);
     /* mkstemp creates 0600; a finished chart is an ordinary file, so give
      * it the permissions the user's umask asks for. */
     mode_t mask = umask(0);
@@ -67,9 +62,7 @@ int sy_outfile_open(sy_outfile *of, const char *path, void *errp)
     if (!of->fp) {
         int e = errno;
         close(fd);
-        unlink(of->tmp);
-        registry_remove(of);
-        of->tmp[0] = '\0';
+        sy_outfile_abort(of);
         return sy_fail(err, SY_ERR_IO, "cannot write %s: %s", path, strerror(e));
     }
     return SY_OK;
@@ -86,33 +79,35 @@ int sy_outfile_commit(sy_outfile *of, void *errp)
     if (fclose(of->fp) != 0 && !bad) { bad = 1; e = errno; }
     of->fp = NULL;
     if (bad) {
-        unlink(of->tmp);
-        registry_remove(of);
-        of->tmp[0] = '\0';
+        sy_outfile_abort(of);
         return sy_fail(err, SY_ERR_IO, "writing %s failed: %s", of->path, strerror(e));
     }
-    if (rename(of->tmp, of->path) != 0) {
-        e = errno;
-        unlink(of->tmp);
-        registry_remove(of);
-        of->tmp[0] = '\0';
-        return sy_fail(err, SY_ERR_IO, "cannot move output into %s: %s", of->path, strerror(e));
-    }
+    pthread_mutex_lock(&lock);
+    int moved = rename(of->tmp, of->path) == 0;
+    e = errno;
+    if (!moved) unlink(of->tmp);
     registry_remove(of);
     of->tmp[0] = '\0';
+    pthread_mutex_unlock(&lock);
+    if (!moved)
+        return sy_fail(err, SY_ERR_IO, "cannot move output into %s: %s", of->path, strerror(e));
     return SY_OK;
 }
 
 void sy_outfile_abort(sy_outfile *of)
 {
     if (of->fp) { fclose(of->fp); of->fp = NULL; }
+    pthread_mutex_lock(&lock);
     if (of->tmp[0]) { unlink(of->tmp); of->tmp[0] = '\0'; }
     registry_remove(of);
+    pthread_mutex_unlock(&lock);
 }
 
 void sy_outfile_abort_all(void)
 {
-    /* Only async-signal-safe calls: unlink(2). */
+    /* The lock stays held: the caller is about to end the process, and no
+     * output may be created or renamed after the temporaries are gone. */
+    pthread_mutex_lock(&lock);
     for (int i = 0; i < SY_MAX_OPEN_OUTFILES; i++) {
         sy_outfile *of = open_files[i];
         if (of && of->tmp[0]) unlink(of->tmp);

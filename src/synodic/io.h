@@ -26,7 +26,10 @@ int sy_outfile_open(sy_outfile *of, const char *path, void *err /* sy_error* */)
 int sy_outfile_commit(sy_outfile *of, void *err /* sy_error* */);
 /* Close and remove the temporary (safe to call twice or after commit). */
 void sy_outfile_abort(sy_outfile *of);
-/* Remove every temporary still open (for signal handlers / atexit). */
+/* Remove every temporary still open, and block every later open, commit
+ * or abort: for the moment before the process exits on an interrupt.
+ * Not async-signal-safe (it takes a mutex): call it from an ordinary
+ * thread, e.g. one that waits for signals with sigwait(). */
 void sy_outfile_abort_all(void);
 
 #ifdef __cplusplus
