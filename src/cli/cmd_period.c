@@ -136,10 +136,6 @@ static sy_status write_csv(const job *jobs, size_t n, const char *path, sy_error
     return (sy_status)sy_outfile_commit(&of, err);
 }
 
-static json_t *jnum(double v)
-{
-    return isfinite(v) ? json_real(v) : json_null();
-}
 
 static json_t *jdate(double jd)
 {
@@ -160,16 +156,16 @@ static sy_status write_json(const job *jobs, size_t n, const sy_study *st, const
     json_object_set_new(root, "target", json_string(g->spec.to->name));
     json_object_set_new(root, "caution", json_string(SY_CAUTION));
     json_t *lim = json_object();
-    json_object_set_new(lim, "c3_max_km2_s2", jnum(st->c3_max_km2_s2));
-    json_object_set_new(lim, "vinf_arr_max_km_s", jnum(st->vinf_arr_max_km_s));
-    json_object_set_new(lim, "dla_max_deg", jnum(st->dla_max_deg));
-    json_object_set_new(lim, "tof_min_days", jnum(st->tof_min_days));
-    json_object_set_new(lim, "tof_max_days", jnum(st->tof_max_days));
+    json_object_set_new(lim, "c3_max_km2_s2", sy_json_number(st->c3_max_km2_s2));
+    json_object_set_new(lim, "vinf_arr_max_km_s", sy_json_number(st->vinf_arr_max_km_s));
+    json_object_set_new(lim, "dla_max_deg", sy_json_number(st->dla_max_deg));
+    json_object_set_new(lim, "tof_min_days", sy_json_number(st->tof_min_days));
+    json_object_set_new(lim, "tof_max_days", sy_json_number(st->tof_max_days));
     json_object_set_new(root, "constraints", lim);
     if (st->lv_capability[0]) {
         json_t *lv = json_object();
         json_object_set_new(lv, "capability_file", json_string(st->lv_capability));
-        json_object_set_new(lv, "spacecraft_mass_kg", jnum(st->spacecraft_mass_kg));
+        json_object_set_new(lv, "spacecraft_mass_kg", sy_json_number(st->spacecraft_mass_kg));
         json_object_set_new(root, "launch_vehicle", lv);
     }
     json_t *arr = json_array();
@@ -184,8 +180,8 @@ static sy_status write_json(const job *jobs, size_t n, const sy_study *st, const
         json_object_set_new(o, "fixed_arrival_tdb",
                             p->arrival == SY_PERIOD_FIXED ? jdate(p->jd_arr_fixed) : json_null());
         json_object_set_new(o, "period_c3_km2_s2", json_real(p->c3_max_km2_s2));
-        json_object_set_new(o, "injected_mass_kg", jnum(p->mass_kg));
-        json_object_set_new(o, "mass_margin_kg", jnum(p->margin_kg));
+        json_object_set_new(o, "injected_mass_kg", sy_json_number(p->mass_kg));
+        json_object_set_new(o, "mass_margin_kg", sy_json_number(p->margin_kg));
         json_t *days = json_array();
         for (size_t d = 0; d < p->ndays; d++) {
             const sy_period_day *y = &p->days[d];
@@ -194,31 +190,20 @@ static sy_status write_json(const job *jobs, size_t n, const sy_study *st, const
             json_object_set_new(e, "departure_jd", json_real(y->jd_dep));
             json_object_set_new(e, "arrival_tdb", jdate(y->jd_arr));
             json_object_set_new(e, "arrival_jd", json_real(y->jd_arr));
-            json_object_set_new(e, "c3_km2_s2", jnum(y->c3_km2_s2));
-            json_object_set_new(e, "dla_deg", jnum(y->dla_deg));
-            json_object_set_new(e, "rla_deg", jnum(y->rla_deg));
-            json_object_set_new(e, "vinf_arr_km_s", jnum(y->vinf_arr_km_s));
-            json_object_set_new(e, "tof_days", jnum(y->tof_days));
+            json_object_set_new(e, "c3_km2_s2", sy_json_number(y->c3_km2_s2));
+            json_object_set_new(e, "dla_deg", sy_json_number(y->dla_deg));
+            json_object_set_new(e, "rla_deg", sy_json_number(y->rla_deg));
+            json_object_set_new(e, "vinf_arr_km_s", sy_json_number(y->vinf_arr_km_s));
+            json_object_set_new(e, "tof_days", sy_json_number(y->tof_days));
             json_object_set_new(e, "type", json_string(y->type == 1 ? "I" : "II"));
-            json_object_set_new(e, "injected_mass_kg", jnum(y->mass_kg));
+            json_object_set_new(e, "injected_mass_kg", sy_json_number(y->mass_kg));
             json_array_append_new(days, e);
         }
         json_object_set_new(o, "days", days);
         json_array_append_new(arr, o);
     }
     json_object_set_new(root, "periods", arr);
-    char *text = json_dumps(root, JSON_INDENT(2) | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(10));
-    json_decref(root);
-    if (!text) return sy_fail(err, SY_ERR_NOMEM, "out of memory writing %s", path);
-    sy_outfile of;
-    sy_status s = (sy_status)sy_outfile_open(&of, path, err);
-    if (s == SY_OK) {
-        fputs(text, of.fp);
-        fputc('\n', of.fp);
-        s = (sy_status)sy_outfile_commit(&of, err);
-    }
-    free(text);
-    return s;
+    return sy_report_write_json(root, path, err);
 }
 
 int cmd_period(int argc, char **argv)

@@ -53,7 +53,6 @@ void usage_windows(FILE *out)
 
 
 
-static json_t *jnum(double v) { return isfinite(v) ? json_real(v) : json_null(); }
 static double r2(double v) { return nearbyint(v * 100.0) / 100.0; }
 
 static int print_quick_json(const sy_windows *w)
@@ -66,11 +65,11 @@ static int print_quick_json(const sy_windows *w)
         json_object_set_new(o, "departure_jd", json_real(r2(wd->best.jd_dep)));
         json_object_set_new(o, "arrival_jd", json_real(r2(wd->best.jd_arr)));
         json_object_set_new(o, "tof_days", json_real(r2(wd->best.tof_days)));
-        json_object_set_new(o, "c3_km2_s2", jnum(wd->best.c3_km2_s2));
-        json_object_set_new(o, "vinf_arr_km_s", jnum(wd->best.vinf_arr_km_s));
-        json_object_set_new(o, "dla_deg", jnum(wd->best.dla_deg));
-        json_object_set_new(o, "open_jd", jnum(wd->open_jd));
-        json_object_set_new(o, "close_jd", jnum(wd->close_jd));
+        json_object_set_new(o, "c3_km2_s2", sy_json_number(wd->best.c3_km2_s2));
+        json_object_set_new(o, "vinf_arr_km_s", sy_json_number(wd->best.vinf_arr_km_s));
+        json_object_set_new(o, "dla_deg", sy_json_number(wd->best.dla_deg));
+        json_object_set_new(o, "open_jd", sy_json_number(wd->open_jd));
+        json_object_set_new(o, "close_jd", sy_json_number(wd->close_jd));
         json_array_append_new(arr, o);
     }
     json_object_set_new(root, "opportunities", arr);

@@ -68,15 +68,16 @@ sy_status sy_report_csv(const sy_grid *g, const sy_study *st,
     return (sy_status)sy_outfile_commit(&of, err);
 }
 
-static json_t *jnum(double v)
+json_t *sy_json_number(double v)
 {
     return isfinite(v) ? json_real(v) : json_null();
 }
 
+
 static json_t *jvec(const double v[3])
 {
     json_t *a = json_array();
-    for (int k = 0; k < 3; k++) json_array_append_new(a, jnum(v[k]));
+    for (int k = 0; k < 3; k++) json_array_append_new(a, sy_json_number(v[k]));
     return a;
 }
 
@@ -93,7 +94,6 @@ static double round_day(double jd)
     return nearbyint(jd * 100.0) / 100.0;
 }
 
-json_t *sy_report_transfer_json(const sy_transfer *t);
 json_t *sy_report_transfer_json(const sy_transfer *t)
 {
     json_t *o = json_object();
@@ -103,16 +103,16 @@ json_t *sy_report_transfer_json(const sy_transfer *t)
     json_object_set_new(o, "arrival_jd", json_real(round_day(t->jd_arr)));
     json_object_set_new(o, "tof_days", json_real(nearbyint(t->tof_days * 100) / 100));
     json_object_set_new(o, "type", json_string(t->type == 1 ? "I" : "II"));
-    json_object_set_new(o, "transfer_angle_deg", jnum(t->transfer_angle_deg));
-    json_object_set_new(o, "c3_km2_s2", jnum(t->c3_km2_s2));
-    json_object_set_new(o, "vinf_dep_km_s", jnum(t->vinf_dep_km_s));
-    json_object_set_new(o, "dla_deg", jnum(t->dla_deg));
-    json_object_set_new(o, "rla_deg", jnum(t->rla_deg));
-    json_object_set_new(o, "vinf_arr_km_s", jnum(t->vinf_arr_km_s));
-    json_object_set_new(o, "c3_arr_km2_s2", jnum(t->c3_arr_km2_s2));
-    json_object_set_new(o, "dap_deg", jnum(t->dap_deg));
-    json_object_set_new(o, "rap_deg", jnum(t->rap_deg));
-    json_object_set_new(o, "min_sun_dist_au", jnum(t->min_sun_dist_au));
+    json_object_set_new(o, "transfer_angle_deg", sy_json_number(t->transfer_angle_deg));
+    json_object_set_new(o, "c3_km2_s2", sy_json_number(t->c3_km2_s2));
+    json_object_set_new(o, "vinf_dep_km_s", sy_json_number(t->vinf_dep_km_s));
+    json_object_set_new(o, "dla_deg", sy_json_number(t->dla_deg));
+    json_object_set_new(o, "rla_deg", sy_json_number(t->rla_deg));
+    json_object_set_new(o, "vinf_arr_km_s", sy_json_number(t->vinf_arr_km_s));
+    json_object_set_new(o, "c3_arr_km2_s2", sy_json_number(t->c3_arr_km2_s2));
+    json_object_set_new(o, "dap_deg", sy_json_number(t->dap_deg));
+    json_object_set_new(o, "rap_deg", sy_json_number(t->rap_deg));
+    json_object_set_new(o, "min_sun_dist_au", sy_json_number(t->min_sun_dist_au));
     json_object_set_new(o, "v1_km_s", jvec(t->v1_km_s));
     json_object_set_new(o, "v2_km_s", jvec(t->v2_km_s));
     if (isfinite(t->dv_dep_km_s)) json_object_set_new(o, "dv_dep_km_s", json_real(t->dv_dep_km_s));
@@ -175,11 +175,11 @@ sy_status sy_report_json(const sy_grid *g, const sy_study *st,
     json_object_set_new(root, "grid", grid);
 
     json_t *lim = json_object();
-    json_object_set_new(lim, "c3_max_km2_s2", jnum(st->c3_max_km2_s2));
-    json_object_set_new(lim, "vinf_arr_max_km_s", jnum(st->vinf_arr_max_km_s));
-    json_object_set_new(lim, "dla_max_deg", jnum(st->dla_max_deg));
-    json_object_set_new(lim, "tof_min_days", jnum(st->tof_min_days));
-    json_object_set_new(lim, "tof_max_days", jnum(st->tof_max_days));
+    json_object_set_new(lim, "c3_max_km2_s2", sy_json_number(st->c3_max_km2_s2));
+    json_object_set_new(lim, "vinf_arr_max_km_s", sy_json_number(st->vinf_arr_max_km_s));
+    json_object_set_new(lim, "dla_max_deg", sy_json_number(st->dla_max_deg));
+    json_object_set_new(lim, "tof_min_days", sy_json_number(st->tof_min_days));
+    json_object_set_new(lim, "tof_max_days", sy_json_number(st->tof_max_days));
     json_object_set_new(root, "constraints", lim);
 
     json_t *orb = json_object();
@@ -201,7 +201,7 @@ sy_status sy_report_json(const sy_grid *g, const sy_study *st,
         }
         json_t *lv = json_object();
         json_object_set_new(lv, "capability_file", json_string(st->lv_capability));
-        json_object_set_new(lv, "spacecraft_mass_kg", jnum(st->spacecraft_mass_kg));
+        json_object_set_new(lv, "spacecraft_mass_kg", sy_json_number(st->spacecraft_mass_kg));
         json_object_set_new(root, "launch_vehicle", lv);
     }
 
@@ -223,14 +223,19 @@ sy_status sy_report_json(const sy_grid *g, const sy_study *st,
             /* null when the C3 lies outside the table (no extrapolation) */
             double m;
             (void)sy_lvcap_mass(cap, opt[k].transfer.c3_km2_s2, &m, NULL);
-            json_object_set_new(o, "injected_mass_kg", jnum(m));
-            json_object_set_new(o, "mass_margin_kg", jnum(m - st->spacecraft_mass_kg));
+            json_object_set_new(o, "injected_mass_kg", sy_json_number(m));
+            json_object_set_new(o, "mass_margin_kg", sy_json_number(m - st->spacecraft_mass_kg));
         }
         json_array_append_new(arr, o);
     }
     json_object_set_new(root, "optima", arr);
     sy_lvcap_free(cap);
 
+    return sy_report_write_json(root, path, err);
+}
+
+sy_status sy_report_write_json(json_t *root, const char *path, sy_error *err)
+{
     char *text = json_dumps(root, JSON_INDENT(2) | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(10));
     json_decref(root);
     if (!text) return sy_fail(err, SY_ERR_NOMEM, "out of memory writing %s", path);

@@ -211,7 +211,6 @@ sy_status sy_windows_write_csv(const sy_windows *w, const char *path, sy_error *
     return (sy_status)sy_outfile_commit(&of, err);
 }
 
-static json_t *jnum(double v) { return isfinite(v) ? json_real(v) : json_null(); }
 static double r2(double v) { return nearbyint(v * 100.0) / 100.0; }
 
 sy_status sy_windows_write_json(const sy_windows *w, const sy_study *st,
@@ -237,11 +236,11 @@ sy_status sy_windows_write_json(const sy_windows *w, const sy_study *st,
     json_object_set_new(scan, "synodic_period_days", json_real(r2(w->synodic_days)));
     json_object_set_new(root, "scan", scan);
     json_t *lim = json_object();
-    json_object_set_new(lim, "c3_max_km2_s2", jnum(st->c3_max_km2_s2));
-    json_object_set_new(lim, "vinf_arr_max_km_s", jnum(st->vinf_arr_max_km_s));
-    json_object_set_new(lim, "dla_max_deg", jnum(st->dla_max_deg));
-    json_object_set_new(lim, "tof_min_days", jnum(st->tof_min_days));
-    json_object_set_new(lim, "tof_max_days", jnum(st->tof_max_days));
+    json_object_set_new(lim, "c3_max_km2_s2", sy_json_number(st->c3_max_km2_s2));
+    json_object_set_new(lim, "vinf_arr_max_km_s", sy_json_number(st->vinf_arr_max_km_s));
+    json_object_set_new(lim, "dla_max_deg", sy_json_number(st->dla_max_deg));
+    json_object_set_new(lim, "tof_min_days", sy_json_number(st->tof_min_days));
+    json_object_set_new(lim, "tof_max_days", sy_json_number(st->tof_max_days));
     json_object_set_new(root, "constraints", lim);
     json_t *arr = json_array();
     for (size_t k = 0; k < w->nwindows; k++) {
@@ -253,33 +252,22 @@ sy_status sy_windows_write_json(const sy_windows *w, const sy_study *st,
         json_object_set_new(o, "departure_jd", json_real(r2(t->jd_dep)));
         json_object_set_new(o, "arrival_jd", json_real(r2(t->jd_arr)));
         json_object_set_new(o, "tof_days", json_real(r2(t->tof_days)));
-        json_object_set_new(o, "c3_km2_s2", jnum(t->c3_km2_s2));
-        json_object_set_new(o, "vinf_arr_km_s", jnum(t->vinf_arr_km_s));
-        json_object_set_new(o, "dla_deg", jnum(t->dla_deg));
-        json_object_set_new(o, "rla_deg", jnum(t->rla_deg));
-        json_object_set_new(o, "vinf_dep_km_s", jnum(t->vinf_dep_km_s));
-        json_object_set_new(o, "dv_total_km_s", jnum(t->dv_total_km_s));
+        json_object_set_new(o, "c3_km2_s2", sy_json_number(t->c3_km2_s2));
+        json_object_set_new(o, "vinf_arr_km_s", sy_json_number(t->vinf_arr_km_s));
+        json_object_set_new(o, "dla_deg", sy_json_number(t->dla_deg));
+        json_object_set_new(o, "rla_deg", sy_json_number(t->rla_deg));
+        json_object_set_new(o, "vinf_dep_km_s", sy_json_number(t->vinf_dep_km_s));
+        json_object_set_new(o, "dv_total_km_s", sy_json_number(t->dv_total_km_s));
         json_object_set_new(o, "tof_at_window_edge", json_boolean(wd->tof_at_edge));
         json_object_set_new(o, "within_limits", json_boolean(wd->within_limits));
-        json_object_set_new(o, "open_jd", jnum(wd->open_jd));
-        json_object_set_new(o, "close_jd", jnum(wd->close_jd));
+        json_object_set_new(o, "open_jd", sy_json_number(wd->open_jd));
+        json_object_set_new(o, "close_jd", sy_json_number(wd->close_jd));
         json_object_set_new(o, "open_at_span_edge", json_boolean(wd->open_at_edge));
         json_object_set_new(o, "close_at_span_edge", json_boolean(wd->close_at_edge));
         json_array_append_new(arr, o);
     }
     json_object_set_new(root, "opportunities", arr);
-    char *text = json_dumps(root, JSON_INDENT(2) | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(10));
-    json_decref(root);
-    if (!text) return sy_fail(err, SY_ERR_NOMEM, "out of memory writing %s", path);
-    sy_outfile of;
-    sy_status s = (sy_status)sy_outfile_open(&of, path, err);
-    if (s == SY_OK) {
-        fputs(text, of.fp);
-        fputc('\n', of.fp);
-        s = (sy_status)sy_outfile_commit(&of, err);
-    }
-    free(text);
-    return s;
+    return sy_report_write_json(root, path, err);
 }
 
 sy_status sy_windows_write_markdown(const sy_windows *w, const sy_study *st,

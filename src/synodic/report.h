@@ -2,6 +2,8 @@
 #ifndef SYNODIC_REPORT_H
 #define SYNODIC_REPORT_H
 
+#include <jansson.h>
+
 #include "synodic.h"
 #include "synodic/grid.h"
 #include "synodic/study.h"
@@ -24,6 +26,13 @@ sy_status sy_report_csv(const sy_grid *g, const sy_study *st,
 sy_status sy_report_json(const sy_grid *g, const sy_study *st,
                          const sy_optimum *opt, size_t nopt,
                          const char *path, sy_error *err);
+
+/* JSON helpers shared by every report writer. */
+json_t *sy_json_number(double v);          /* null when not finite   */
+json_t *sy_report_transfer_json(const sy_transfer *t);
+/* Write `root` (stolen) indented, key order kept, 10 significant digits,
+ * through a temporary file renamed into place. */
+sy_status sy_report_write_json(json_t *root, const char *path, sy_error *err);
 
 #ifdef __cplusplus
 }
