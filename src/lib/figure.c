@@ -206,38 +206,78 @@ static sy_status trace_levels(const float *z, const unsigned char *mask, size_t 
     return SY_OK;
 }
 
-sy_status sy_figure_write(const sy_grid *g, const sy_study *st,
-                          const sy_optimum *opt, size_t nopt,
-                          const char *path, sy_error *err)
+#define SY_FIGURE_MAX_MARKS 8
+
+struct sy_figure {
+    sy_chart ch;
+    sy_lvcap *cap;
+    float *mass;
+    unsigned char *mass_bad, *nosol, *ridge, *angle_mask, *regmask[4];
+    traced tr[SY_MAX_CHART_FIELDS], mass_tr, boundary;
+    double levels[SY_MAX_CHART_FIELDS][SY_MAX_LEVELS], mass_lv[SY_MAX_LEVELS],
+        tofs[SY_MAX_LEVELS];
+    sy_chart_isolines iso[SY_MAX_CHART_FIELDS + 1];
+    char legends[SY_MAX_CHART_FIELDS][96];
+    sy_chart_fill fill;
+    sy_chart_tof_lines tl;
+    sy_chart_boundary bd;
+    sy_chart_region regions[4];
+    char reglabel[4][96];
+    sy_chart_marker marks[SY_FIGURE_MAX_MARKS];
+    char mlabel[SY_FIGURE_MAX_MARKS][160];
+    char title[256], subtitle[256];
+    char f1[256], f3[512], f4[700], f5[512];
+    const char *footer[5];
+    double width_in, height_in, dpi;
+    char software[64], comment[6144];
+    sy_chart_text text[4];
+};
+
+void sy_figure_free(sy_figure *f)
 {
-    return sy_figure_write_paths(g, st, opt, nopt, NULL, 0, path, err);
+    if (!f) return;
+    traced_free(&f->mass_tr);
+    free(f->mass);
+    free(f->mass_bad);
+    sy_lvcap_free(f->cap);
+    for (size_t k = 0; k < SY_MAX_CHART_FIELDS; k++) traced_free(&f->tr[k]);
+    traced_free(&f->boundary);
+    for (int r = 0; r < 4; r++) free(f->regmask[r]);
+    free(f->angle_mask);
+    free(f->nosol);
+    free(f->ridge);
+    free(f);
 }
 
-sy_status sy_figure_write_paths(const sy_grid *g, const sy_study *st,
-                                const sy_optimum *opt, size_t nopt,
-                                const sy_chart_path *paths, size_t npaths,
-                                const char *path, sy_error *err)
+const sy_chart *sy_figure_chart(const sy_figure *f) { return &f->ch; }
+
+void sy_figure_page(const sy_figure *f, sy_chart_page *page)
+{
+    sy_chart_page_init(page);
+    page->width_in = f->width_in;
+    page->height_in = f->height_in;
+    page->dpi = f->dpi;
+    page->format = SY_CHART_FMT_AUTO;
+    page->text = f->text;
+    page->ntext = sizeof f->text / sizeof f->text[0];
+}
+
+static sy_chart_role role_of(size_t n)
+{
+    return n == 0 ? SY_CHART_PRIMARY : n == 1 ? SY_CHART_SECONDARY : SY_CHART_TERTIARY;
+}
+
+/* Everything below fills f; on failure the caller frees it. */
+static sy_status figure_fill(sy_figure *f, const sy_grid *g, const sy_study *st,
+                             const sy_optimum *opt, size_t nopt,
+                             const sy_figure_opts *o, sy_error *err)
 {
     const size_t nx = g->nx, ny = g->ny, cells = nx * ny;
-    sy_lvcap *cap = NULL;
-    float *mass = NULL;
-    unsigned char *mass_bad = NULL;
-    traced mass_tr = {0};
-    sy_status status = SY_OK;
-    unsigned char *nosol = malloc(cells);
-    unsigned char *regmask[4] = {NULL, NULL, NULL, NULL};
-    float *angle = NULL;
-    unsigned char *angle_mask = NULL;
-    traced tr[SY_MAX_CHART_FIELDS];
-    memset(tr, 0, sizeof tr);
-    traced boundary = {0};
-    double levels[SY_MAX_CHART_FIELDS][SY_MAX_LEVELS];
-    unsigned char *ridge = malloc(cells);
-    if (!nosol || !ridge) {
-        free(nosol);
-        free(ridge);
-        return sy_fail(err, SY_ERR_NOMEM, "out of memory");
-    }
+    sy_status status;
+    f->nosol = malloc(cells);
+    f->ridge = malloc(cells);
+    if (!f->nosol || !f->ridge) return sy_fail(err, SY_ERR_NOMEM, "out of memory");
+    unsigned char *nosol = f->nosol, *ridge = f->ridge;
     size_t n_nosol = 0;
     for (size_t k = 0; k < cells; k++) {
         nosol[k] = g->status[k] != SY_CELL_OK;
@@ -245,87 +285,91 @@ sy_status sy_figure_write_paths(const sy_grid *g, const sy_study *st,
         ridge[k] = nosol[k];
     }
 
-    sy_chart ch;
-    sy_chart_init(&ch);
-    ch.yaxis = g->spec.y_is_tof ? SY_CHART_Y_TOF : SY_CHART_Y_ARRIVAL;
-    ch.nx = nx;
-    ch.ny = ny;
-    ch.x0_jd = g->spec.x0_jd;
-    ch.dx_days = g->spec.dx_days;
-    ch.y0 = g->spec.y0;
-    ch.dy = g->spec.dy_days;
-    ch.title = st->title;
-    ch.subtitle = st->subtitle[0] ? st->subtitle : NULL;
-    ch.xtitle = "Departure date (TDB)";
-    ch.ytitle = g->spec.y_is_tof ? "Time of flight (days)" : "Arrival date (TDB)";
+    sy_chart *ch = &f->ch;
+    sy_chart_init(ch);
+    ch->yaxis = g->spec.y_is_tof ? SY_CHART_Y_TOF : SY_CHART_Y_ARRIVAL;
+    ch->nx = nx;
+    ch->ny = ny;
+    ch->x0_jd = g->spec.x0_jd;
+    ch->dx_days = g->spec.dx_days;
+    ch->y0 = g->spec.y0;
+    ch->dy = g->spec.dy_days;
+    snprintf(f->title, sizeof f->title, "%s", o->title ? o->title : st->title);
+    snprintf(f->subtitle, sizeof f->subtitle, "%s", o->subtitle ? o->subtitle : st->subtitle);
+    ch->title = f->title;
+    ch->subtitle = f->subtitle[0] ? f->subtitle : NULL;
+    ch->xtitle = "Departure date (TDB)";
+    ch->ytitle = g->spec.y_is_tof ? "Time of flight (days)" : "Arrival date (TDB)";
     if (n_nosol) {
-        ch.nosol_mask = nosol;
-        ch.nosol_legend = "No transfer solution";
+        ch->nosol_mask = nosol;
+        ch->nosol_legend = "No transfer solution";
     }
 
     /* Iso-lines of every charted field. */
-    sy_chart_isolines iso[SY_MAX_CHART_FIELDS + 1];
-    char legends[SY_MAX_CHART_FIELDS][96];
+    const sy_chart_field *fields = o->fields ? o->fields : st->fields;
+    size_t nfields = o->fields ? o->nfields : st->nfields;
+    if (nfields > SY_MAX_CHART_FIELDS)
+        return sy_fail(err, SY_ERR_ARG, "a figure charts at most %d fields, not %zu",
+                       SY_MAX_CHART_FIELDS, nfields);
     size_t niso = 0;
-    for (size_t f = 0; f < st->nfields; f++) {
-        const sy_chart_field *cf = &st->fields[f];
+    for (size_t k = 0; k < nfields; k++) {
+        const sy_chart_field *cf = &fields[k];
         const float *z = g->field[cf->field];
         if (!z) continue;
-        size_t n = sy_figure_levels(g, st, cf, levels[f], SY_MAX_LEVELS);
-        ridge_mask(g, z, levels[f], n, nosol, ridge);
-        if ((status = trace_levels(z, ridge, nx, ny, levels[f], n, &tr[f])) != SY_OK) {
-            sy_fail(err, status, "contouring %s failed", sy_field_name(cf->field));
-            goto done;
-        }
-        snprintf(legends[f], sizeof legends[f], "%s", sy_field_label(cf->field));
-        iso[niso].role = niso == 0 ? SY_CHART_PRIMARY : niso == 1 ? SY_CHART_SECONDARY : SY_CHART_TERTIARY;
-        iso[niso].sets = tr[f].sets;
-        iso[niso].nsets = tr[f].nsets;
-        iso[niso].legend = legends[f];
-        iso[niso].label_every = 1;
+        size_t n = sy_figure_levels(g, st, cf, f->levels[k], SY_MAX_LEVELS);
+        ridge_mask(g, z, f->levels[k], n, nosol, ridge);
+        if ((status = trace_levels(z, ridge, nx, ny, f->levels[k], n, &f->tr[k])) != SY_OK)
+            return sy_fail(err, status, "contouring %s failed", sy_field_name(cf->field));
+        snprintf(f->legends[k], sizeof f->legends[k], "%s", sy_field_label(cf->field));
+        f->iso[niso].role = role_of(niso);
+        f->iso[niso].sets = f->tr[k].sets;
+        f->iso[niso].nsets = f->tr[k].nsets;
+        f->iso[niso].legend = f->legends[k];
+        f->iso[niso].label_every = o->label_every[k] > 1 ? o->label_every[k] : 1;
         niso++;
     }
     /* Delivered-mass contours: derived from C3 through the capability
-     * curve, after the grid (the grid engine stores no mass). */
-    double mass_lv[SY_MAX_LEVELS];
-    if (st->chart_mass && st->lv_capability[0] && g->field[SY_F_C3]) {
-        if ((status = sy_lvcap_load(st->lv_capability, &cap, err)) != SY_OK) goto done;
-        if ((status = sy_figure_mass_field(g, cap, &mass, &mass_bad, err)) != SY_OK) goto done;
-        size_t n = mass_levels(g, st, cap, mass_lv, SY_MAX_LEVELS);
-        for (size_t k = 0; k < cells; k++) mass_bad[k] |= nosol[k];
-        ridge_mask(g, mass, mass_lv, n, mass_bad, ridge);
-        if ((status = trace_levels(mass, ridge, nx, ny, mass_lv, n, &mass_tr)) != SY_OK) {
-            sy_fail(err, status, "contouring the delivered mass failed");
-            goto done;
-        }
-        iso[niso].role = niso == 0 ? SY_CHART_PRIMARY : niso == 1 ? SY_CHART_SECONDARY : SY_CHART_TERTIARY;
-        iso[niso].sets = mass_tr.sets;
-        iso[niso].nsets = mass_tr.nsets;
-        iso[niso].legend = "Injected mass (kg)";
-        iso[niso].label_every = 1;
+     * curve, after the grid (the grid engine stores no mass).  Part of
+     * the study's field list, so a caller's list replaces them too. */
+    if (!o->fields && st->chart_mass && st->lv_capability[0] && g->field[SY_F_C3]) {
+        if ((status = sy_lvcap_load(st->lv_capability, &f->cap, err)) != SY_OK) return status;
+        if ((status = sy_figure_mass_field(g, f->cap, &f->mass, &f->mass_bad, err)) != SY_OK)
+            return status;
+        size_t n = mass_levels(g, st, f->cap, f->mass_lv, SY_MAX_LEVELS);
+        for (size_t k = 0; k < cells; k++) f->mass_bad[k] |= nosol[k];
+        ridge_mask(g, f->mass, f->mass_lv, n, f->mass_bad, ridge);
+        if ((status = trace_levels(f->mass, ridge, nx, ny, f->mass_lv, n, &f->mass_tr)) != SY_OK)
+            return sy_fail(err, status, "contouring the delivered mass failed");
+        f->iso[niso].role = role_of(niso);
+        f->iso[niso].sets = f->mass_tr.sets;
+        f->iso[niso].nsets = f->mass_tr.nsets;
+        f->iso[niso].legend = "Injected mass (kg)";
+        f->iso[niso].label_every = 1;
         niso++;
     }
-    ch.isolines = iso;
-    ch.nisolines = niso;
-    ch.paths = paths;
-    ch.npaths = npaths;
+    ch->isolines = f->iso;
+    ch->nisolines = niso;
+    ch->paths = o->paths;
+    ch->npaths = o->npaths;
 
     /* Filled bands of the primary field. */
-    sy_chart_fill fill;
-    if (st->filled && st->nfields > 0 && g->field[st->fields[0].field] && tr[0].nsets >= 2) {
-        fill.z = g->field[st->fields[0].field];
-        fill.invalid = nosol;
-        fill.levels = levels[0];
-        fill.nlevels = tr[0].nsets;
-        fill.title = sy_field_label(st->fields[0].field);
-        ch.fill = &fill;
+    if ((st->filled || o->force_filled) && nfields > 0 && g->field[fields[0].field] &&
+        f->tr[0].nsets >= 2) {
+        f->fill.z = g->field[fields[0].field];
+        f->fill.invalid = nosol;
+        f->fill.levels = f->levels[0];
+        f->fill.nlevels = f->tr[0].nsets;
+        f->fill.title = sy_field_label(fields[0].field);
+        ch->fill = &f->fill;
     }
 
-    /* Time-of-flight iso-lines: the study's, or nice round values. */
-    double tofs[SY_MAX_LEVELS];
+    /* Time-of-flight iso-lines: the caller's, the study's, or nice round
+     * values. */
     size_t ntof = 0;
-    sy_chart_tof_lines tl;
-    if (st->tof_lines_auto) {
+    if (o->tof_days) {
+        ntof = o->ntof < SY_MAX_LEVELS ? o->ntof : SY_MAX_LEVELS;
+        memcpy(f->tofs, o->tof_days, ntof * sizeof *f->tofs);
+    } else if (st->tof_lines_auto) {
         const float *tof = g->field[SY_F_TOF];
         double lo = INFINITY, hi = -INFINITY;
         for (size_t k = 0; k < cells; k++)
@@ -333,48 +377,43 @@ sy_status sy_figure_write_paths(const sy_grid *g, const sy_study *st,
                 if (tof[k] < lo) lo = tof[k];
                 if (tof[k] > hi) hi = tof[k];
             }
-        if (hi > lo && !g->spec.y_is_tof) ntof = sy_nice_levels(lo, hi, 6, tofs, SY_MAX_LEVELS);
+        if (hi > lo && !g->spec.y_is_tof) ntof = sy_nice_levels(lo, hi, 6, f->tofs, SY_MAX_LEVELS);
     } else {
         ntof = st->ntof_lines;
-        memcpy(tofs, st->tof_lines_days, ntof * sizeof *tofs);
+        memcpy(f->tofs, st->tof_lines_days, ntof * sizeof *f->tofs);
     }
     if (ntof) {
-        tl.tof_days = tofs;
-        tl.n = ntof;
-        tl.legend = "Time of flight (days)";
-        ch.tof = &tl;
+        f->tl.tof_days = f->tofs;
+        f->tl.n = ntof;
+        f->tl.legend = "Time of flight (days)";
+        ch->tof = &f->tl;
     }
 
     /* Type I / II boundary: the 180-degree contour of the transfer angle.
      * The angle wraps from 360 to 0 where the arrival point passes the
      * departure direction; nodes near the wrap are masked so that jump
      * is not mistaken for a crossing of 180 deg. */
-    sy_chart_boundary bd;
     if (st->show_types && g->field[SY_F_ANGLE]) {
-        angle = g->field[SY_F_ANGLE];
-        angle_mask = malloc(cells);
-        if (!angle_mask) { status = sy_fail(err, SY_ERR_NOMEM, "out of memory"); goto done; }
+        const float *angle = g->field[SY_F_ANGLE];
+        f->angle_mask = malloc(cells);
+        if (!f->angle_mask) return sy_fail(err, SY_ERR_NOMEM, "out of memory");
         for (size_t k = 0; k < cells; k++)
-            angle_mask[k] = nosol[k] || !(angle[k] > 60.0f && angle[k] < 300.0f);
+            f->angle_mask[k] = nosol[k] || !(angle[k] > 60.0f && angle[k] < 300.0f);
         double l180 = 180.0;
-        if ((status = trace_levels(angle, angle_mask, nx, ny, &l180, 1, &boundary)) != SY_OK) {
-            sy_fail(err, status, "tracing the Type I/II boundary failed");
-            goto done;
-        }
-        if (boundary.sets[0].nlines > 0) {
-            bd.lines = boundary.sets[0].lines;
-            bd.nlines = boundary.sets[0].nlines;
+        if ((status = trace_levels(angle, f->angle_mask, nx, ny, &l180, 1, &f->boundary)) != SY_OK)
+            return sy_fail(err, status, "tracing the Type I/II boundary failed");
+        if (f->boundary.sets[0].nlines > 0) {
+            f->bd.lines = f->boundary.sets[0].lines;
+            f->bd.nlines = f->boundary.sets[0].nlines;
             /* Longer flights sweep more angle: Type II lies towards larger y. */
-            bd.low_text = "Type I";
-            bd.high_text = "Type II";
-            bd.legend = "Type I / Type II boundary";
-            ch.boundary = &bd;
+            f->bd.low_text = "Type I";
+            f->bd.high_text = "Type II";
+            f->bd.legend = "Type I / Type II boundary";
+            ch->boundary = &f->bd;
         }
     }
 
     /* Constraint regions. */
-    sy_chart_region regions[4];
-    char reglabel[4][96];
     size_t nreg = 0;
     const float *F_c3 = g->field[SY_F_C3], *F_v = g->field[SY_F_VINF_ARR];
     const float *F_dla = g->field[SY_F_DLA], *F_tof = g->field[SY_F_TOF];
@@ -383,8 +422,8 @@ sy_status sy_figure_write_paths(const sy_grid *g, const sy_study *st,
         int tof_lim = r == 3 && (isfinite(st->tof_min_days) || isfinite(st->tof_max_days));
         if (!isfinite(lim) && !tof_lim) continue;
         unsigned char *m = calloc(cells, 1);
-        if (!m) { status = sy_fail(err, SY_ERR_NOMEM, "out of memory"); goto done; }
-        regmask[nreg] = m;
+        if (!m) return sy_fail(err, SY_ERR_NOMEM, "out of memory");
+        f->regmask[nreg] = m;
         size_t hits = 0;
         for (size_t k = 0; k < cells; k++) {
             if (g->status[k] != SY_CELL_OK) continue;
@@ -397,33 +436,33 @@ sy_status sy_figure_write_paths(const sy_grid *g, const sy_study *st,
             m[k] = (unsigned char)bad;
             hits += (size_t)bad;
         }
+        char *lab = f->reglabel[nreg];
+        const size_t nlab = sizeof f->reglabel[nreg];
         char a[32], b[32];
-        if (r == 0) snprintf(reglabel[nreg], sizeof reglabel[nreg], "C3 > %g km²/s²", lim);
-        if (r == 1) snprintf(reglabel[nreg], sizeof reglabel[nreg], "Arrival v∞ > %g km/s", lim);
-        if (r == 2) snprintf(reglabel[nreg], sizeof reglabel[nreg], "|DLA| > %g°", lim);
+        if (r == 0) snprintf(lab, nlab, "C3 > %g km²/s²", lim);
+        if (r == 1) snprintf(lab, nlab, "Arrival v∞ > %g km/s", lim);
+        if (r == 2) snprintf(lab, nlab, "|DLA| > %g°", lim);
         if (r == 3) {
             snprintf(a, sizeof a, "%g", st->tof_min_days);
             snprintf(b, sizeof b, "%g", st->tof_max_days);
             if (isfinite(st->tof_min_days) && isfinite(st->tof_max_days))
-                snprintf(reglabel[nreg], sizeof reglabel[nreg], "Flight time outside %s–%s d", a, b);
+                snprintf(lab, nlab, "Flight time outside %s–%s d", a, b);
             else if (isfinite(st->tof_min_days))
-                snprintf(reglabel[nreg], sizeof reglabel[nreg], "Flight time < %s d", a);
+                snprintf(lab, nlab, "Flight time < %s d", a);
             else
-                snprintf(reglabel[nreg], sizeof reglabel[nreg], "Flight time > %s d", b);
+                snprintf(lab, nlab, "Flight time > %s d", b);
         }
-        if (hits == 0) { free(m); regmask[nreg] = NULL; continue; }
-        regions[nreg].mask = m;
-        regions[nreg].legend = reglabel[nreg];
+        if (hits == 0) { free(m); f->regmask[nreg] = NULL; continue; }
+        f->regions[nreg].mask = m;
+        f->regions[nreg].legend = lab;
         nreg++;
     }
-    ch.regions = regions;
-    ch.nregions = nreg;
+    ch->regions = f->regions;
+    ch->nregions = nreg;
 
-    /* Optima markers. */
-    sy_chart_marker marks[8];
-    char mlabel[8][160];
+    /* Optima markers, then the caller's. */
     size_t nm = 0;
-    for (size_t k = 0; k < nopt && nm < 8; k++) {
+    for (size_t k = 0; k < nopt && nm < SY_FIGURE_MAX_MARKS; k++) {
         if (!opt[k].found) continue;
         char v[32], d1[40], d2[40];
         fmt_value(opt[k].value, v, sizeof v);
@@ -433,72 +472,115 @@ sy_status sy_figure_write_paths(const sy_grid *g, const sy_study *st,
         if (st->width_in < 5.0)
             /* a report column has no room for dates: value and type only
              * (the dates are in the JSON summary and the printed table) */
-            snprintf(mlabel[nm], sizeof mlabel[nm], "%s %s%s", short_name(opt[k].field), v,
+            snprintf(f->mlabel[nm], sizeof f->mlabel[nm], "%s %s%s", short_name(opt[k].field), v,
                      opt[k].type == 1 ? " I" : opt[k].type == 2 ? " II" : "");
         else
-            snprintf(mlabel[nm], sizeof mlabel[nm], "min %s%s %s %s\n%s → %s",
+            snprintf(f->mlabel[nm], sizeof f->mlabel[nm], "min %s%s %s %s\n%s → %s",
                      short_name(opt[k].field), ty, v, field_unit(opt[k].field), d1, d2);
-        marks[nm].x_jd = opt[k].jd_dep;
-        marks[nm].y = g->spec.y_is_tof ? opt[k].jd_arr - opt[k].jd_dep : opt[k].jd_arr;
-        marks[nm].symbol = opt[k].field == SY_F_C3 ? SY_CHART_MARK_CIRCLE
-                           : opt[k].field == SY_F_VINF_ARR ? SY_CHART_MARK_SQUARE
-                                                           : SY_CHART_MARK_DIAMOND;
-        marks[nm].label = mlabel[nm];
-        marks[nm].legend = NULL;
+        f->marks[nm].x_jd = opt[k].jd_dep;
+        f->marks[nm].y = g->spec.y_is_tof ? opt[k].jd_arr - opt[k].jd_dep : opt[k].jd_arr;
+        f->marks[nm].symbol = opt[k].field == SY_F_C3 ? SY_CHART_MARK_CIRCLE
+                              : opt[k].field == SY_F_VINF_ARR ? SY_CHART_MARK_SQUARE
+                                                              : SY_CHART_MARK_DIAMOND;
+        f->marks[nm].label = f->mlabel[nm];
+        f->marks[nm].legend = NULL;
         nm++;
     }
-    ch.markers = marks;
-    ch.nmarkers = nm;
+    for (size_t k = 0; k < o->nmarkers && nm < SY_FIGURE_MAX_MARKS; k++) {
+        f->marks[nm] = o->markers[k];
+        if (o->markers[k].label) {
+            snprintf(f->mlabel[nm], sizeof f->mlabel[nm], "%s", o->markers[k].label);
+            f->marks[nm].label = f->mlabel[nm];
+        }
+        nm++;
+    }
+    ch->markers = f->marks;
+    ch->nmarkers = nm;
 
-    /* Footer: model, caution, program and grid. */
-    char f1[256], f3[512], d0[40], d1[40];
-    snprintf(f1, sizeof f1, "%s.", SY_MODEL_TEXT);
+    /* Footer: model, caution, program and grid, then the capability
+     * table and the caller's line. */
+    char d0[40], d1[40];
+    snprintf(f->f1, sizeof f->f1, "%s.", SY_MODEL_TEXT);
     sy_date_format(g->spec.x0_jd, 0, d0, sizeof d0);
     sy_date_format(sy_grid_x_jd(g, (double)(nx - 1)), 0, d1, sizeof d1);
-    snprintf(f3, sizeof f3, "synodic %s · %s → %s · grid %zu × %zu, %g d × %g d · %d rev%s",
+    snprintf(f->f3, sizeof f->f3, "synodic %s · %s → %s · grid %zu × %zu, %g d × %g d · %d rev%s",
              sy_version(), g->spec.from->name, g->spec.to->name, nx, ny,
              g->spec.dx_days, g->spec.dy_days, g->spec.revs,
              g->spec.revs ? (g->spec.branch == SY_BRANCH_LEFT ? ", left branch" : ", right branch") : "");
-    char f4[700];
-    const char *footer[4] = {f1, SY_CAUTION, f3, f4};
-    ch.footer = footer;
-    ch.nfooter = 3;
-    if (cap) {
-        const char *src = strrchr(sy_lvcap_source(cap), '/');
-        snprintf(f4, sizeof f4, "Injected mass from the capability table %s (user-supplied; not extrapolated).",
-                 src ? src + 1 : sy_lvcap_source(cap));
-        ch.nfooter = 4;
+    size_t nf = 0;
+    f->footer[nf++] = f->f1;
+    f->footer[nf++] = SY_CAUTION;
+    f->footer[nf++] = f->f3;
+    if (f->cap) {
+        const char *src = strrchr(sy_lvcap_source(f->cap), '/');
+        snprintf(f->f4, sizeof f->f4, "Injected mass from the capability table %s (user-supplied; not extrapolated).",
+                 src ? src + 1 : sy_lvcap_source(f->cap));
+        f->footer[nf++] = f->f4;
     }
+    if (o->footer_extra) {
+        snprintf(f->f5, sizeof f->f5, "%s", o->footer_extra);
+        f->footer[nf++] = f->f5;
+    }
+    ch->footer = f->footer;
+    ch->nfooter = nf;
 
-    sy_chart_page page;
-    sy_chart_page_init(&page);
-    page.width_in = st->width_in;
-    page.height_in = st->height_in;
-    page.dpi = st->dpi;
-    page.format = SY_CHART_FMT_AUTO;
-    char software[64], comment[6144];
-    snprintf(software, sizeof software, "synodic %s", sy_version());
-    snprintf(comment, sizeof comment,
-             "study=%s; %s->%s; departure %s..%s step %g d; %s %g..%g step %g; revs=%d; %s",
+    /* The page and its text chunks. */
+    f->width_in = st->width_in;
+    f->height_in = st->height_in;
+    f->dpi = st->dpi;
+    snprintf(f->software, sizeof f->software, "synodic %s", sy_version());
+    snprintf(f->comment, sizeof f->comment,
+             "study=%s; %s->%s; departure %s..%s step %g d; %s %.5f..%.5f step %g; revs=%d; %s",
              st->path, g->spec.from->name, g->spec.to->name, d0, d1, g->spec.dx_days,
              g->spec.y_is_tof ? "tof_days" : "arrival_jd", g->spec.y0,
              sy_grid_y(g, (double)(ny - 1)), g->spec.dy_days, g->spec.revs, SY_CAUTION);
-    sy_chart_text text[] = {{"Title", st->title}, {"Software", software},
-                            {"Source", SY_MODEL_TEXT}, {"Comment", comment}};
-    page.text = text;
-    page.ntext = sizeof text / sizeof text[0];
-    status = sy_chart_write(&ch, &page, path, err);
+    f->text[0] = (sy_chart_text){"Title", f->title};
+    f->text[1] = (sy_chart_text){"Software", f->software};
+    f->text[2] = (sy_chart_text){"Source", SY_MODEL_TEXT};
+    f->text[3] = (sy_chart_text){"Comment", f->comment};
+    return SY_OK;
+}
 
-done:
-    traced_free(&mass_tr);
-    free(mass);
-    free(mass_bad);
-    sy_lvcap_free(cap);
-    for (size_t f = 0; f < SY_MAX_CHART_FIELDS; f++) traced_free(&tr[f]);
-    traced_free(&boundary);
-    for (int r = 0; r < 4; r++) free(regmask[r]);
-    free(angle_mask);
-    free(nosol);
-    free(ridge);
-    return status;
+sy_status sy_figure_build(const sy_grid *g, const sy_study *st,
+                          const sy_optimum *opt, size_t nopt,
+                          const sy_figure_opts *o, sy_figure **out,
+                          sy_error *err)
+{
+    static const sy_figure_opts none;
+    *out = NULL;
+    sy_figure *f = calloc(1, sizeof *f);
+    if (!f) return sy_fail(err, SY_ERR_NOMEM, "out of memory");
+    sy_status s = figure_fill(f, g, st, opt, nopt, o ? o : &none, err);
+    if (s != SY_OK) {
+        sy_figure_free(f);
+        return s;
+    }
+    *out = f;
+    return SY_OK;
+}
+
+sy_status sy_figure_write(const sy_grid *g, const sy_study *st,
+                          const sy_optimum *opt, size_t nopt,
+                          const char *path, sy_error *err)
+{
+    return sy_figure_write_paths(g, st, opt, nopt, NULL, 0, path, err);
+}
+
+sy_status sy_figure_write_paths(const sy_grid *g, const sy_study *st,
+                                const sy_optimum *opt, size_t nopt,
+                                const sy_chart_path *paths, size_t npaths,
+                                const char *path, sy_error *err)
+{
+    sy_figure_opts o;
+    memset(&o, 0, sizeof o);
+    o.paths = paths;
+    o.npaths = npaths;
+    sy_figure *f;
+    sy_status s = sy_figure_build(g, st, opt, nopt, &o, &f, err);
+    if (s != SY_OK) return s;
+    sy_chart_page page;
+    sy_figure_page(f, &page);
+    s = sy_chart_write(&f->ch, &page, path, err);
+    sy_figure_free(f);
+    return s;
 }

@@ -6,7 +6,7 @@
 #include "synodic.h"
 #include "synodic/atlas.h"
 #include "synodic/chart.h"
-#include "synodic/contour.h"
+#include "synodic/figure.h"
 #include "synodic/io.h"
 #include "synodic/report.h"
 #include "synodic/windows.h"
@@ -435,9 +435,12 @@ sy_status sy_windows_write_comparison(const sy_windows *w, const sy_study *st,
 /* ------------------------------------------------------------------ */
 /* Porkchop charts on a common scale                                   */
 
+/* The levels shared by every opportunity's chart: C3 (primary, filled)
+ * and arrival v-infinity as fixed lists, and the time-of-flight lines. */
 typedef struct {
-    double c3[SY_MAX_LEVELS], vinf[SY_MAX_LEVELS], tof[SY_MAX_LEVELS];
-    size_t nc3, nvinf, ntof;
+    sy_chart_field field[2];
+    double tof[SY_MAX_LEVELS];
+    size_t ntof;
 } common_levels;
 
 static void levels_of(const sy_windows *w, const sy_study *st, common_levels *L)
@@ -450,107 +453,38 @@ static void levels_of(const sy_windows *w, const sy_study *st, common_levels *L)
         vlo = fmin(vlo, t->vinf_arr_km_s);
         vhi = fmax(vhi, t->vinf_arr_km_s);
     }
+    memset(L, 0, sizeof *L);
+    L->field[0].field = SY_F_C3;
+    L->field[1].field = SY_F_VINF_ARR;
     /* From the best opportunity's minimum to well above the worst one's
      * (or past the study's limit), so every basin shows its shape. */
     double ztop = fmax(2.0 * c3hi, c3lo + 10.0);
     if (isfinite(st->c3_max_km2_s2)) ztop = fmax(ztop, 1.5 * st->c3_max_km2_s2);
-    L->nc3 = sy_nice_levels(c3lo, ztop, 12, L->c3, SY_MAX_LEVELS);
+    L->field[0].nlevels = sy_nice_levels(c3lo, ztop, 12, L->field[0].levels, SY_MAX_LEVELS);
     double vtop = fmax(2.0 * vhi, vlo + 2.0);
     if (isfinite(st->vinf_arr_max_km_s)) vtop = fmax(vtop, 1.5 * st->vinf_arr_max_km_s);
-    L->nvinf = sy_nice_levels(vlo, vtop, 6, L->vinf, SY_MAX_LEVELS);
+    L->field[1].nlevels = sy_nice_levels(vlo, vtop, 6, L->field[1].levels, SY_MAX_LEVELS);
     L->ntof = sy_nice_levels(w->spec.tof_min_days, w->spec.tof_max_days, 6, L->tof, SY_MAX_LEVELS);
 }
 
-/* Same idea as the chart module's ridge gaps: near transfer angles of 180
- * and 0/360 deg every field climbs a ridge narrower than the grid step;
- * lines there would bunch into a solid band, so those nodes become gaps
- * for the iso-lines (the colour bands still show the ridge). */
-static void ridge_gaps(const sy_grid *g, const float *z, const double *lv, size_t nlv,
-                       const unsigned char *base, unsigned char *out)
+/* The grid of one opportunity: departures +-60 d around its optima on
+ * whole days, arrivals around theirs by a share of the flight-time
+ * window.  *dlo is the earliest optimum's departure. */
+static sy_status season_grid(const sy_windows *w, size_t si, sy_grid **g, double *dlo,
+                             sy_error *err)
 {
-    const size_t nx = g->nx, ny = g->ny;
-    const float *ang = g->field[SY_F_ANGLE];
-    memcpy(out, base, nx * ny);
-    if (!ang || nlv < 2) return;
-    double gap = (lv[nlv - 1] - lv[0]) / (double)(nlv - 1);
-    for (size_t j = 0; j < ny; j++)
-        for (size_t i = 0; i < nx; i++) {
-            size_t k = j * nx + i;
-            float a = ang[k], off = fminf(fabsf(a - 180.0f), fminf(a, 360.0f - a));
-            if (out[k] || !(off < 12.0f)) continue;
-            double d = 0;
-            const size_t nb[4] = {i > 0 ? k - 1 : k, i + 1 < nx ? k + 1 : k,
-                                  j > 0 ? k - nx : k, j + 1 < ny ? k + nx : k};
-            for (int q = 0; q < 4; q++)
-                if (!base[nb[q]]) d = fmax(d, fabs((double)z[nb[q]] - (double)z[k]));
-            if (d > 2.0 * gap) out[k] = 1;
-        }
-}
-
-typedef struct {
-    sy_grid *g;
-    unsigned char *nosol, *ridge, *angmask, *reg[3];
-    sy_isoline_set *c3sets, *vsets, bset;
-    size_t nc3sets, nvsets;
-    sy_chart_isolines iso[2];
-    sy_chart_fill fill;
-    sy_chart_tof_lines tl;
-    sy_chart_boundary bd;
-    sy_chart_region regions[3];
-    char reglabel[3][64];
-    sy_chart_marker marks[2];
-    char mlabel[2][160];
-    char subtitle[256], f3[256];
-    const char *footer[3];
-    sy_chart chart;
-} season_chart;
-
-static void season_chart_free(season_chart *sc)
-{
-    for (size_t k = 0; k < sc->nc3sets; k++) sy_isoline_set_free(&sc->c3sets[k]);
-    for (size_t k = 0; k < sc->nvsets; k++) sy_isoline_set_free(&sc->vsets[k]);
-    free(sc->c3sets);
-    free(sc->vsets);
-    sy_isoline_set_free(&sc->bset);
-    free(sc->nosol);
-    free(sc->ridge);
-    free(sc->angmask);
-    for (int r = 0; r < 3; r++) free(sc->reg[r]);
-    sy_grid_free(sc->g);
-    memset(sc, 0, sizeof *sc);
-}
-
-static sy_status trace_all(const float *z, const unsigned char *mask, size_t nx, size_t ny,
-                           const double *lv, size_t n, sy_isoline_set **sets, size_t *nsets)
-{
-    *sets = calloc(n ? n : 1, sizeof **sets);
-    *nsets = 0;
-    if (!*sets) return SY_ERR_NOMEM;
-    for (size_t k = 0; k < n; k++) {
-        sy_status s = (sy_status)sy_contour_trace(z, mask, nx, ny, lv[k], &(*sets)[k]);
-        if (s != SY_OK) return s;
-        (*nsets)++;
-    }
-    return SY_OK;
-}
-
-static sy_status season_chart_build(const sy_windows *w, const sy_study *st, size_t si,
-                                    const common_levels *L, season_chart *sc, sy_error *err)
-{
-    memset(sc, 0, sizeof *sc);
     const sy_season *se = &w->seasons[si];
-    double dlo = INFINITY, dhi = -INFINITY, alo = INFINITY, ahi = -INFINITY;
+    double lo = INFINITY, dhi = -INFINITY, alo = INFINITY, ahi = -INFINITY;
     for (int t = 0; t < 2; t++) {
         if (se->window[t] < 0) continue;
         const sy_transfer *b = &w->windows[se->window[t]].best;
-        dlo = fmin(dlo, b->jd_dep);
+        lo = fmin(lo, b->jd_dep);
         dhi = fmax(dhi, b->jd_dep);
         alo = fmin(alo, b->jd_arr);
         ahi = fmax(ahi, b->jd_arr);
     }
-    /* departures +-60 d around the optima on whole days; arrivals around
-     * theirs by a share of the flight-time window */
-    double x0 = floor(dlo - CHART_DEP_MARGIN) + 0.5, x1 = ceil(dhi + CHART_DEP_MARGIN) + 0.5;
+    *dlo = lo;
+    double x0 = floor(lo - CHART_DEP_MARGIN) + 0.5, x1 = ceil(dhi + CHART_DEP_MARGIN) + 0.5;
     double am = fmax(75.0, 0.3 * (w->spec.tof_max_days - w->spec.tof_min_days));
     double y0 = floor(alo - am) + 0.5, y1 = ceil(ahi + am) + 0.5;
     if (y0 < x0 + 1.0) y0 = x0 + 1.0;
@@ -569,136 +503,52 @@ static sy_status season_chart_build(const sy_windows *w, const sy_study *st, siz
     gs.branch = w->spec.branch;
     gs.opts = w->spec.opts;
     gs.threads = w->spec.threads;
-    sy_status s = sy_grid_compute(&gs, NULL, NULL, &sc->g, err);
-    if (s != SY_OK) return s;
-    sy_grid *g = sc->g;
-    size_t nx = g->nx, ny = g->ny, cells = nx * ny;
-    sc->nosol = malloc(cells);
-    sc->ridge = malloc(cells);
-    sc->angmask = malloc(cells);
-    if (!sc->nosol || !sc->ridge || !sc->angmask) return sy_fail(err, SY_ERR_NOMEM, "out of memory");
-    size_t n_nosol = 0;
-    for (size_t k = 0; k < cells; k++) {
-        sc->nosol[k] = g->status[k] != SY_CELL_OK;
-        n_nosol += sc->nosol[k];
-    }
-    sy_chart *ch = &sc->chart;
-    sy_chart_init(ch);
-    ch->yaxis = SY_CHART_Y_ARRIVAL;
-    ch->nx = nx;
-    ch->ny = ny;
-    ch->x0_jd = g->spec.x0_jd;
-    ch->dx_days = 1.0;
-    ch->y0 = g->spec.y0;
-    ch->dy = dy;
-    ch->title = st->title;
-    char a[32], b[32];
+    return sy_grid_compute(&gs, NULL, NULL, g, err);
+}
+
+/* One opportunity's porkchop: the figure module's chart of its grid
+ * (sy_figure_build), with what differs here: C3 and arrival v-infinity
+ * on the common levels whatever the study's [chart] fields, C3 always
+ * filled, the common time-of-flight lines, and as markers the scan's
+ * minimum-C3 window of each type (dates rounded to the day as in the
+ * table, flagged when outside the limits) instead of grid optima. */
+static sy_status season_figure(const sy_windows *w, const sy_study *st, size_t si,
+                               const common_levels *L, const sy_grid *g, double dlo,
+                               sy_figure **out, sy_error *err)
+{
+    const sy_season *se = &w->seasons[si];
+    char a[32], b[32], subtitle[256], mlabel[2][160];
     sy_date_format(dlo, 0, a, sizeof a);
     a[7] = '\0';
-    snprintf(sc->subtitle, sizeof sc->subtitle, "Opportunity %zu of %zu (%s): %s → %s, common C3 scale",
+    snprintf(subtitle, sizeof subtitle, "Opportunity %zu of %zu (%s): %s → %s, common C3 scale",
              si + 1, w->nseasons, a, w->spec.from->name, w->spec.to->name);
-    ch->subtitle = sc->subtitle;
-    ch->xtitle = "Departure date (TDB)";
-    ch->ytitle = "Arrival date (TDB)";
-    if (n_nosol) {
-        ch->nosol_mask = sc->nosol;
-        ch->nosol_legend = "No transfer solution";
-    }
-    /* filled C3 bands and C3 lines on the common levels */
-    ridge_gaps(g, g->field[SY_F_C3], L->c3, L->nc3, sc->nosol, sc->ridge);
-    if ((s = trace_all(g->field[SY_F_C3], sc->ridge, nx, ny, L->c3, L->nc3, &sc->c3sets, &sc->nc3sets)) != SY_OK)
-        return sy_fail(err, s, "contouring C3 failed");
-    size_t niso = 0;
-    sc->iso[niso] = (sy_chart_isolines){SY_CHART_PRIMARY, sc->c3sets, sc->nc3sets,
-                                        sy_field_label(SY_F_C3), L->nc3 > 10 ? 2 : 1};
-    niso++;
-    ridge_gaps(g, g->field[SY_F_VINF_ARR], L->vinf, L->nvinf, sc->nosol, sc->ridge);
-    if ((s = trace_all(g->field[SY_F_VINF_ARR], sc->ridge, nx, ny, L->vinf, L->nvinf, &sc->vsets, &sc->nvsets)) != SY_OK)
-        return sy_fail(err, s, "contouring arrival v-infinity failed");
-    if (sc->nvsets) {
-        sc->iso[niso] = (sy_chart_isolines){SY_CHART_SECONDARY, sc->vsets, sc->nvsets,
-                                            sy_field_label(SY_F_VINF_ARR), 1};
-        niso++;
-    }
-    ch->isolines = sc->iso;
-    ch->nisolines = niso;
-    if (L->nc3 >= 2) {
-        sc->fill.z = g->field[SY_F_C3];
-        sc->fill.invalid = sc->nosol;
-        sc->fill.levels = L->c3;
-        sc->fill.nlevels = L->nc3;
-        sc->fill.title = sy_field_label(SY_F_C3);
-        ch->fill = &sc->fill;
-    }
-    if (L->ntof) {
-        sc->tl.tof_days = L->tof;
-        sc->tl.n = L->ntof;
-        sc->tl.legend = "Time of flight (days)";
-        ch->tof = &sc->tl;
-    }
-    /* Type I / II boundary: the 180-degree contour of the transfer angle,
-     * away from the 360 -> 0 wrap */
-    const float *ang = g->field[SY_F_ANGLE];
-    for (size_t k = 0; k < cells; k++)
-        sc->angmask[k] = sc->nosol[k] || !(ang[k] > 60.0f && ang[k] < 300.0f);
-    if (sy_contour_trace(ang, sc->angmask, nx, ny, 180.0, &sc->bset) != SY_OK)
-        return sy_fail(err, SY_ERR_NOMEM, "tracing the Type I/II boundary failed");
-    if (sc->bset.nlines) {
-        sc->bd = (sy_chart_boundary){sc->bset.lines, sc->bset.nlines, "Type I", "Type II",
-                                     "Type I / Type II boundary"};
-        ch->boundary = &sc->bd;
-    }
-    /* constraint regions */
-    size_t nreg = 0;
-    for (int r = 0; r < 3; r++) {
-        double lim = r == 0 ? st->c3_max_km2_s2 : r == 1 ? st->vinf_arr_max_km_s : st->dla_max_deg;
-        if (!isfinite(lim)) continue;
-        const float *z = g->field[r == 0 ? SY_F_C3 : r == 1 ? SY_F_VINF_ARR : SY_F_DLA];
-        unsigned char *m = calloc(cells, 1);
-        if (!m) return sy_fail(err, SY_ERR_NOMEM, "out of memory");
-        sc->reg[r] = m;
-        size_t hits = 0;
-        for (size_t k = 0; k < cells; k++) {
-            if (g->status[k] != SY_CELL_OK) continue;
-            m[k] = r == 2 ? !(fabsf(z[k]) <= lim) : !(z[k] <= lim);
-            hits += m[k];
-        }
-        if (!hits) continue;
-        if (r == 0) snprintf(sc->reglabel[nreg], sizeof sc->reglabel[0], "C3 > %g km²/s²", lim);
-        if (r == 1) snprintf(sc->reglabel[nreg], sizeof sc->reglabel[0], "Arrival v∞ > %g km/s", lim);
-        if (r == 2) snprintf(sc->reglabel[nreg], sizeof sc->reglabel[0], "|DLA| > %g°", lim);
-        sc->regions[nreg].mask = m;
-        sc->regions[nreg].legend = sc->reglabel[nreg];
-        nreg++;
-    }
-    ch->regions = sc->regions;
-    ch->nregions = nreg;
-    /* the optima of this opportunity */
+    sy_chart_marker marks[2];
     size_t nm = 0;
     for (int t = 0; t < 2; t++) {
         if (se->window[t] < 0) continue;
         const sy_window *wd = &w->windows[se->window[t]];
         day_format(wd->best.jd_dep, a, sizeof a);
         day_format(wd->best.jd_arr, b, sizeof b);
-        snprintf(sc->mlabel[nm], sizeof sc->mlabel[0], "min C3 (Type %s) %.2f km²/s²%s\n%s → %s",
+        snprintf(mlabel[nm], sizeof mlabel[nm], "min C3 (Type %s) %.2f km²/s²%s\n%s → %s",
                  type_name(wd->type), wd->best.c3_km2_s2, wd->within_limits ? "" : " (outside limits)", a, b);
-        sc->marks[nm].x_jd = wd->best.jd_dep;
-        sc->marks[nm].y = wd->best.jd_arr;
-        sc->marks[nm].symbol = t == 0 ? SY_CHART_MARK_CIRCLE : SY_CHART_MARK_SQUARE;
-        sc->marks[nm].label = sc->mlabel[nm];
-        sc->marks[nm].legend = NULL;
+        marks[nm] = (sy_chart_marker){wd->best.jd_dep, wd->best.jd_arr,
+                                      t == 0 ? SY_CHART_MARK_CIRCLE : SY_CHART_MARK_SQUARE,
+                                      mlabel[nm], NULL};
         nm++;
     }
-    ch->markers = sc->marks;
-    ch->nmarkers = nm;
-    snprintf(sc->f3, sizeof sc->f3, "synodic %s · %s → %s · grid %zu × %zu, 1 d × %g d · same C3 levels on every opportunity",
-             sy_version(), w->spec.from->name, w->spec.to->name, nx, ny, dy);
-    sc->footer[0] = SY_MODEL_TEXT;
-    sc->footer[1] = SY_CAUTION;
-    sc->footer[2] = sc->f3;
-    ch->footer = sc->footer;
-    ch->nfooter = 3;
-    return SY_OK;
+    sy_figure_opts o;
+    memset(&o, 0, sizeof o);
+    o.fields = L->field;
+    o.nfields = 2;
+    o.label_every[0] = L->field[0].nlevels > 10 ? 2 : 1;
+    o.tof_days = L->tof;
+    o.ntof = L->ntof;
+    o.force_filled = 1;
+    o.subtitle = subtitle;
+    o.footer_extra = "Same C3 and arrival v∞ levels on every opportunity.";
+    o.markers = marks;
+    o.nmarkers = nm;
+    return sy_figure_build(g, st, NULL, 0, &o, out, err);
 }
 
 /* The cover table: every window, the caution in the notes. */
@@ -776,15 +626,25 @@ sy_status sy_windows_write_charts(const sy_windows *w, const sy_study *st,
         s = add_cover(doc, w, st, err);
     }
     for (size_t si = 0; si < w->nseasons && s == SY_OK; si++) {
-        season_chart sc;
-        s = season_chart_build(w, st, si, &L, &sc, err);
+        sy_grid *g = NULL;
+        sy_figure *fig = NULL;
+        double dlo;
+        s = season_grid(w, si, &g, &dlo, err);
+        if (s == SY_OK) s = season_figure(w, st, si, &L, g, dlo, &fig, err);
         if (s == SY_OK && write_png) {
             char path[4400];
+            sy_chart_page fpage;
+            sy_figure_page(fig, &fpage);
+            /* the size of the comparison figure and atlas (page_of) */
+            fpage.width_in = page.width_in;
+            fpage.height_in = page.height_in;
+            fpage.dpi = page.dpi;
             snprintf(path, sizeof path, "%s/%s-%02zu.png", dir, base, si + 1);
-            s = sy_chart_write(&sc.chart, &page, path, err);
+            s = sy_chart_write(sy_figure_chart(fig), &fpage, path, err);
         }
-        if (s == SY_OK && doc) s = sy_doc_add_chart(doc, &sc.chart, err);
-        season_chart_free(&sc);
+        if (s == SY_OK && doc) s = sy_doc_add_chart(doc, sy_figure_chart(fig), err);
+        sy_figure_free(fig);
+        sy_grid_free(g);
     }
     if (doc) {
         if (s != SY_OK) {
