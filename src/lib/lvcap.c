@@ -29,6 +29,14 @@ void sy_lvcap_free(sy_lvcap *cap)
     free(cap);
 }
 
+/* Bounds of a capability table (see synodic/lvcap.h): C3 from -100
+ * (bound orbits) to 10000 km2/s2 (v-infinity 100 km/s, far beyond any
+ * launch vehicle), rows at least 1e-6 km2/s2 apart, at most 1e7 kg. */
+#define LV_C3_MIN (-100.0)
+#define LV_C3_MAX 10000.0
+#define LV_C3_MIN_STEP 1e-6
+#define LV_MASS_MAX 1e7
+
 /* Where row k came from: "FILE:LINE" or "NAME row K". */
 static void where(char *buf, size_t len, const char *name, const int *lines,
                   size_t k)
@@ -54,6 +62,19 @@ static sy_status build(const double *c3, const double *mass, size_t n,
         if (mass[k] < 0)
             return sy_fail(err, SY_ERR_PARSE, "%s: mass %g kg is negative; an "
                            "injected mass is zero or positive", w, mass[k]);
+        /* Physical bounds, which also keep the cubic coefficients of the
+         * interpolant (slope ~ mass / spacing, h^3) far from overflow:
+         * a table with a row at C3 6e123 made GSL's Steffen curve rise
+         * again inside its last interval (tests/fuzz/fuzz_lvcap.c). */
+        if (c3[k] < LV_C3_MIN || c3[k] > LV_C3_MAX)
+            return sy_fail(err, SY_ERR_PARSE, "%s: C3 %g km2/s2 is outside "
+                           "%g..%g km2/s2 (v-infinity up to 100 km/s); check "
+                           "that the first column is C3 in km2/s2", w, c3[k],
+                           LV_C3_MIN, LV_C3_MAX);
+        if (mass[k] > LV_MASS_MAX)
+            return sy_fail(err, SY_ERR_PARSE, "%s: mass %g kg is more than "
+                           "%g kg; check that the second column is the mass "
+                           "in kg", w, mass[k], LV_MASS_MAX);
         if (k == 0) continue;
         where(w0, sizeof w0, name, lines, k - 1);
         if (c3[k] == c3[k - 1])
@@ -63,6 +84,10 @@ static sy_status build(const double *c3, const double *mass, size_t n,
             return sy_fail(err, SY_ERR_PARSE, "%s: C3 %g km2/s2 is below the "
                            "%g of the row before (%s); sort the rows by "
                            "increasing C3", w, c3[k], c3[k - 1], w0);
+        if (c3[k] - c3[k - 1] < LV_C3_MIN_STEP)
+            return sy_fail(err, SY_ERR_PARSE, "%s: C3 %.9g km2/s2 is within "
+                           "%g km2/s2 of the row before (%s); merge the two "
+                           "rows", w, c3[k], LV_C3_MIN_STEP, w0);
         if (mass[k] > mass[k - 1])
             return sy_fail(err, SY_ERR_PARSE, "%s: mass %g kg exceeds the %g kg "
                            "at the lower C3 %g (%s); injected mass cannot rise "
@@ -225,6 +250,15 @@ sy_status sy_lvcap_mass(const sy_lvcap *cap, double c3_km2_s2, double *mass_kg,
     if (gsl_interp_eval_e(cap->interp, cap->c3, cap->mass, c3_km2_s2, NULL, &m) != GSL_SUCCESS)
         return sy_fail(err, SY_ERR_RANGE, "C3 %g km2/s2 could not be interpolated in %.300s",
                        c3_km2_s2, cap->source);
+    /* Steffen's interpolant stays between the two bracketing rows of
+     * monotone data, but GSL's evaluation rounds: a row of 0 kg came back
+     * as -3.4e-13 kg (found by tests/fuzz/fuzz_lvcap.c).  Clamp to the
+     * bracket so the curve is exact at the rows, never negative and
+     * monotone to the last bit. */
+    size_t i = gsl_interp_bsearch(cap->c3, c3_km2_s2, 0, cap->n - 1);
+    double m_hi = cap->mass[i], m_lo = cap->mass[i + 1 < cap->n ? i + 1 : i];
+    if (m > m_hi) m = m_hi;
+    if (m < m_lo) m = m_lo;
     *mass_kg = m;
     return SY_OK;
 }

@@ -12,7 +12,10 @@
  *   - an optional header line whose first field is not a number, e.g.
  *     "c3_km2_s2,mass_kg", before the first data row;
  *   - at least 2 rows; C3 strictly increasing down the file (no duplicate
- *     C3); every number finite; mass >= 0 and non-increasing with C3.
+ *     C3); every number finite; mass >= 0 and non-increasing with C3;
+ *   - C3 within -100..10000 km^2/s^2, successive rows at least 1e-6
+ *     km^2/s^2 apart, mass at most 1e7 kg (physical bounds that also keep
+ *     the interpolant clear of floating-point overflow).
  * The last rule is required, not advised: a vehicle never lifts more to a
  * higher energy, so a mass that rises with C3 is a typing or column error.
  *
