@@ -71,16 +71,6 @@ static int pdf_pages(const char *pdf, char *info_out, size_t info_len)
     return n;
 }
 
-static int files_equal(const char *a, const char *b)
-{
-    size_t na, nb;
-    char *sa = slurp(a, &na), *sb = slurp(b, &nb);
-    int eq = sa && sb && na == nb && memcmp(sa, sb, na) == 0;
-    free(sa);
-    free(sb);
-    return eq;
-}
-
 /* ------------------------------------------------------------------ */
 /* Demo: a launch period on the porkchop demo                          */
 
@@ -126,7 +116,7 @@ START_TEST(test_path_layer)
     page_set(&pg, 3.5, 3.0, 300);
     ck_assert_msg(sy_chart_write(&d->chart, &pg, svg, &err) == SY_OK, "%s", err.msg);
     ck_assert_msg(sy_chart_write(&d->chart, &pg, svg2, &err) == SY_OK, "%s", err.msg);
-    ck_assert_msg(files_equal(svg, svg2), "SVG with a path differs between two renders");
+    ck_assert_msg(tu_files_equal(svg, svg2), "SVG with a path differs between two renders");
     char *s = slurp(svg, NULL);
     ck_assert_ptr_nonnull(s);
     ck_assert_ptr_nonnull(strstr(s, "Path: Launch period\n41 days, C3 ≤ 10.4 km²/s²"));
@@ -350,7 +340,7 @@ START_TEST(test_xy_svg_pdf)
     ck_assert_msg(sy_chart_write(&pk->chart, &pg, other, &err) == SY_OK, "%s", err.msg);
     demo_free(pk);
     ck_assert_msg(sy_xy_write(&d.xy, &pg, b, &err) == SY_OK, "%s", err.msg);
-    ck_assert_msg(files_equal(a, b), "xy SVG differs between two renders");
+    ck_assert_msg(tu_files_equal(a, b), "xy SVG differs between two renders");
     if (have_tool("xmllint")) {
         char cmd[700];
         snprintf(cmd, sizeof cmd, "xmllint --noout '%s' 2>/dev/null", a);
@@ -375,7 +365,7 @@ START_TEST(test_xy_svg_pdf)
     ck_assert_msg(sy_xy_write(&d.xy, &pg, a, &err) == SY_OK, "%s", err.msg);
     sleep(1);
     ck_assert_msg(sy_xy_write(&d.xy, &pg, b, &err) == SY_OK, "%s", err.msg);
-    ck_assert_msg(files_equal(a, b), "xy PDF differs between two renders");
+    ck_assert_msg(tu_files_equal(a, b), "xy PDF differs between two renders");
     size_t n;
     char *pdf = slurp(a, &n);
     ck_assert_ptr_nonnull(pdf);
@@ -526,7 +516,7 @@ START_TEST(test_doc_pages)
     /* 40 one-line rows of 9 pt text fit on one 11 in high page */
     ck_assert_uint_eq(ta, 1);
     ck_assert_uint_eq(tb, 1);
-    ck_assert_msg(files_equal(a, b), "the document differs between two runs");
+    ck_assert_msg(tu_files_equal(a, b), "the document differs between two runs");
     size_t n;
     char *pdf = slurp(a, &n);
     ck_assert_ptr_nonnull(pdf);

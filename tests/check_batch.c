@@ -22,12 +22,7 @@
 static sy_catalog *cat;
 static const sy_body *earth, *mars;
 
-static void setup(void)
-{
-    cat = sy_catalog_new();
-    ck_assert_int_eq(sy_catalog_find(cat, "Earth", &earth, NULL), SY_OK);
-    ck_assert_int_eq(sy_catalog_find(cat, "Mars", &mars, NULL), SY_OK);
-}
+static void setup(void) { tu_earth_mars(&cat, &earth, &mars); }
 
 static void teardown(void)
 {

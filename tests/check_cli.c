@@ -2,111 +2,25 @@
  * Runs the built `synodic` (path in $SYNODIC_BIN) as a user would. */
 #include "config.h"
 #include "synodic.h"
-#include "testutil.h"
+#include "testutil_cli.h"
 
 #include <jansson.h>
 #include <stdio.h>
 #include <string.h>
-#include <sys/wait.h>
 #include <unistd.h>
-
-typedef struct {
-    int status;      /* exit code, or 128+signal */
-    char *out, *err; /* captured stdout / stderr */
-} run_result;
-
-static char *slurp(const char *path)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f) return strdup("");
-    fseek(f, 0, SEEK_END);
-    long n = ftell(f);
-    fseek(f, 0, SEEK_SET);
-    char *s = malloc((size_t)n + 1);
-    size_t got = fread(s, 1, (size_t)n, f);
-    s[got] = '\0';
-    fclose(f);
-    return s;
-}
-
-static const char *bin(void)
-{
-    const char *b = getenv("SYNODIC_BIN");
-    return b ? b : "./synodic";
-}
-
-static const char *srcdir(void)
-{
-    const char *s = getenv("SYNODIC_SRCDIR");
-    return s ? s : ".";
-}
-
-/* Run "synodic ARGS" (ARGS is shell text) and capture everything. */
-static run_result run(const char *args)
-{
-    char out[] = "/tmp/sy_cli_outXXXXXX", err[] = "/tmp/sy_cli_errXXXXXX";
-    int fo = mkstemp(out), fe = mkstemp(err);
-    close(fo);
-    close(fe);
-    char cmd[4096];
-    snprintf(cmd, sizeof cmd, "cd '%s' && '%s' %s >'%s' 2>'%s' </dev/null", srcdir(), bin(), args, out, err);
-    int st = system(cmd);
-    run_result r;
-    r.status = WIFEXITED(st) ? WEXITSTATUS(st) : 128 + (WIFSIGNALED(st) ? WTERMSIG(st) : 0);
-    r.out = slurp(out);
-    r.err = slurp(err);
-    unlink(out);
-    unlink(err);
-    return r;
-}
-
-static void run_free(run_result *r)
-{
-    free(r->out);
-    free(r->err);
-}
-
-static json_t *parse_json(const char *text)
-{
-    json_error_t je;
-    json_t *j = json_loads(text, 0, &je);
-    ck_assert_msg(j != NULL, "not JSON (%s): %s", je.text, text);
-    return j;
-}
-
-static void expect_number(json_t *o, const char *key)
-{
-    json_t *v = json_object_get(o, key);
-    ck_assert_msg(v && json_is_number(v), "key '%s' missing or not a number", key);
-    ck_assert_msg(isfinite(json_number_value(v)), "key '%s' not finite", key);
-}
-
-static void expect_vec3(json_t *o, const char *key)
-{
-    json_t *a = json_object_get(o, key);
-    ck_assert_msg(a && json_is_array(a) && json_array_size(a) == 3, "key '%s' is not a 3-array", key);
-    for (size_t i = 0; i < 3; i++) ck_assert(json_is_number(json_array_get(a, i)));
-}
-
-static void expect_string(json_t *o, const char *key, const char *value)
-{
-    json_t *v = json_object_get(o, key);
-    ck_assert_msg(v && json_is_string(v), "key '%s' missing or not a string", key);
-    if (value) ck_assert_str_eq(json_string_value(v), value);
-}
 
 START_TEST(test_state_json)
 {
-    run_result r = run("state mars 2033-04-10 --json");
+    tu_run_result r = tu_run_synodic("state mars 2033-04-10 --json");
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
-    json_t *j = parse_json(r.out);
-    expect_string(j, "body", "Mars");
-    expect_number(j, "jd_tdb");
+    json_t *j = tu_parse_json(r.out);
+    tu_expect_string(j, "body", "Mars");
+    tu_expect_number(j, "jd_tdb");
     ck_assert_double_eq(json_number_value(json_object_get(j, "jd_tdb")), 2463697.5);
-    expect_string(j, "frame", "ecliptic-j2000");
-    expect_string(j, "center", "sun");
-    expect_vec3(j, "r_km");
-    expect_vec3(j, "v_km_s");
+    tu_expect_string(j, "frame", "ecliptic-j2000");
+    tu_expect_string(j, "center", "sun");
+    tu_expect_vec3(j, "r_km");
+    tu_expect_vec3(j, "v_km_s");
     double rn = 0;
     for (int k = 0; k < 3; k++) {
         double x = json_number_value(json_array_get(json_object_get(j, "r_km"), k));
@@ -117,72 +31,72 @@ START_TEST(test_state_json)
      * (a = 1.5237 AU, e = 0.0934 from the mean elements). */
     ck_assert(rn > 1.38 && rn < 1.67);
     json_decref(j);
-    run_free(&r);
+    tu_run_free(&r);
 
-    r = run("state Earth JD2451545.0 --frame equatorial --json");
+    r = tu_run_synodic("state Earth JD2451545.0 --frame equatorial --json");
     ck_assert_int_eq(r.status, 0);
-    j = parse_json(r.out);
-    expect_string(j, "frame", "eme2000");
-    expect_string(j, "body", "Earth");
+    j = tu_parse_json(r.out);
+    tu_expect_string(j, "frame", "eme2000");
+    tu_expect_string(j, "body", "Earth");
     json_decref(j);
-    run_free(&r);
+    tu_run_free(&r);
 }
 END_TEST
 
 START_TEST(test_lambert_json)
 {
     /* Vallado's Lambert example (from memory, see check_lambert.c). */
-    run_result r = run("lambert --r1 15945.34,0,0 --r2 12214.83899,10249.46731,0 "
-                       "--tof 4560 --mu 398600.4418 --json");
+    tu_run_result r = tu_run_synodic("lambert --r1 15945.34,0,0 --r2 12214.83899,10249.46731,0 "
+                                     "--tof 4560 --mu 398600.4418 --json");
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
-    json_t *j = parse_json(r.out);
-    expect_vec3(j, "v1_km_s");
-    expect_vec3(j, "v2_km_s");
-    expect_number(j, "revs");
-    expect_number(j, "iterations");
-    expect_string(j, "branch", NULL);
+    json_t *j = tu_parse_json(r.out);
+    tu_expect_vec3(j, "v1_km_s");
+    tu_expect_vec3(j, "v2_km_s");
+    tu_expect_number(j, "revs");
+    tu_expect_number(j, "iterations");
+    tu_expect_string(j, "branch", NULL);
     double v1x = json_number_value(json_array_get(json_object_get(j, "v1_km_s"), 0));
     ck_assert_double_eq_tol(v1x, 2.058913, 2e-5);
     json_decref(j);
-    run_free(&r);
+    tu_run_free(&r);
 
-    r = run("lambert --r1 1.5e8,0,0 --r2 0,2.2e8,1e6 --tof 9e7 --revs 1 --branch right --json");
+    r = tu_run_synodic("lambert --r1 1.5e8,0,0 --r2 0,2.2e8,1e6 --tof 9e7 --revs 1 --branch right --json");
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
-    j = parse_json(r.out);
-    expect_string(j, "branch", "right");
+    j = tu_parse_json(r.out);
+    tu_expect_string(j, "branch", "right");
     ck_assert_int_eq(json_integer_value(json_object_get(j, "revs")), 1);
     json_decref(j);
-    run_free(&r);
+    tu_run_free(&r);
 }
 END_TEST
 
 START_TEST(test_transfer_json)
 {
-    run_result r = run("transfer earth mars 2033-04-20 2033-11-01 --json");
+    tu_run_result r = tu_run_synodic("transfer earth mars 2033-04-20 2033-11-01 --json");
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
-    json_t *j = parse_json(r.out);
+    json_t *j = tu_parse_json(r.out);
     const char *nums[] = {"c3_km2_s2", "vinf_dep_km_s", "dla_deg", "rla_deg", "vinf_arr_km_s",
                           "c3_arr_km2_s2", "dap_deg", "rap_deg", "tof_days",
                           "transfer_angle_deg", "min_sun_dist_au"};
-    for (size_t i = 0; i < sizeof nums / sizeof nums[0]; i++) expect_number(j, nums[i]);
-    expect_vec3(j, "v1_km_s");
-    expect_vec3(j, "v2_km_s");
-    expect_string(j, "type", "I");
+    for (size_t i = 0; i < sizeof nums / sizeof nums[0]; i++) tu_expect_number(j, nums[i]);
+    tu_expect_vec3(j, "v1_km_s");
+    tu_expect_vec3(j, "v2_km_s");
+    tu_expect_string(j, "type", "I");
     ck_assert_ptr_null(json_object_get(j, "dv_dep_km_s"));
     ck_assert_double_eq_tol(json_number_value(json_object_get(j, "tof_days")), 195.0, 1e-9);
     json_decref(j);
-    run_free(&r);
+    tu_run_free(&r);
 
-    r = run("transfer Earth Mars 2033-04-20 2033-11-01 --park-alt 200 "
-            "--capture-peri 400 --capture-apo 33793 --entry-alt 125 --json");
+    r = tu_run_synodic("transfer Earth Mars 2033-04-20 2033-11-01 --park-alt 200 "
+                       "--capture-peri 400 --capture-apo 33793 --entry-alt 125 --json");
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
-    j = parse_json(r.out);
-    expect_number(j, "dv_dep_km_s");
-    expect_number(j, "dv_cap_km_s");
-    expect_number(j, "dv_total_km_s");
-    expect_number(j, "v_entry_km_s");
+    j = tu_parse_json(r.out);
+    tu_expect_number(j, "dv_dep_km_s");
+    tu_expect_number(j, "dv_cap_km_s");
+    tu_expect_number(j, "dv_total_km_s");
+    tu_expect_number(j, "v_entry_km_s");
     json_decref(j);
-    run_free(&r);
+    tu_run_free(&r);
 }
 END_TEST
 
@@ -191,36 +105,36 @@ START_TEST(test_tables_and_help)
     const char *cmds[] = {"bodies --help", "state --help", "lambert --help",
                           "transfer --help", "chart --help", "--help", "help transfer"};
     for (size_t i = 0; i < sizeof cmds / sizeof cmds[0]; i++) {
-        run_result r = run(cmds[i]);
+        tu_run_result r = tu_run_synodic(cmds[i]);
         ck_assert_msg(r.status == 0, "%s: exit %d", cmds[i], r.status);
         ck_assert_msg(strstr(r.out, "usage:") != NULL, "%s: no usage", cmds[i]);
-        run_free(&r);
+        tu_run_free(&r);
     }
-    run_result r = run("--version");
+    tu_run_result r = tu_run_synodic("--version");
     ck_assert_int_eq(r.status, 0);
     ck_assert_ptr_nonnull(strstr(r.out, "synodic "));
-    run_free(&r);
+    tu_run_free(&r);
 
-    r = run("bodies");
+    r = tu_run_synodic("bodies");
     ck_assert_int_eq(r.status, 0);
     const char *names[] = {"Mercury", "Venus", "Earth", "Mars", "Jupiter", "Saturn",
                            "Uranus", "Neptune", "Pluto"};
     for (size_t i = 0; i < 9; i++) ck_assert_ptr_nonnull(strstr(r.out, names[i]));
-    run_free(&r);
+    tu_run_free(&r);
 
-    r = run("bodies --bodies share/synodic/demo-bodies.ini --json");
+    r = tu_run_synodic("bodies --bodies share/synodic/demo-bodies.ini --json");
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
-    json_t *j = parse_json(r.out);
+    json_t *j = tu_parse_json(r.out);
     ck_assert_int_ge(json_array_size(json_object_get(j, "bodies")), 10);
     json_decref(j);
-    run_free(&r);
+    tu_run_free(&r);
 
-    r = run("transfer earth mars 2033-04-20 2033-11-01");
+    r = tu_run_synodic("transfer earth mars 2033-04-20 2033-11-01");
     ck_assert_int_eq(r.status, 0);
     ck_assert_ptr_nonnull(strstr(r.out, "C3"));
     ck_assert_ptr_nonnull(strstr(r.out, "DLA"));
     ck_assert_ptr_nonnull(strstr(r.out, "Preliminary"));
-    run_free(&r);
+    tu_run_free(&r);
 }
 END_TEST
 
@@ -254,7 +168,7 @@ START_TEST(test_bad_inputs)
         {"state mars 2033-04-10 --bodies /nonexistent/bodies.ini", "/nonexistent/bodies.ini", 5},
     };
     for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++) {
-        run_result r = run(bad[i].args);
+        tu_run_result r = tu_run_synodic(bad[i].args);
         ck_assert_msg(r.status == bad[i].code, "'%s': exit %d (want %d), stderr: %s",
                       bad[i].args, r.status, bad[i].code, r.err);
         ck_assert_msg(r.out[0] == '\0', "'%s': stdout not empty: %s", bad[i].args, r.out);
@@ -263,14 +177,14 @@ START_TEST(test_bad_inputs)
         ck_assert_msg(nl && nl[1] == '\0', "'%s': not one line: %s", bad[i].args, r.err);
         ck_assert_msg(strstr(r.err, bad[i].needle) != NULL, "'%s': '%s' lacks '%s'",
                       bad[i].args, r.err, bad[i].needle);
-        run_free(&r);
+        tu_run_free(&r);
     }
 }
 END_TEST
 
 static int same_file(const char *a, const char *b)
 {
-    char *x = slurp(a), *y = slurp(b);
+    char *x = tu_slurp(a), *y = tu_slurp(b);
     int same = strlen(x) > 0 && strcmp(x, y) == 0;
     free(x);
     free(y);
@@ -291,18 +205,18 @@ START_TEST(test_chart_outputs)
     char args[1024], p1[1200], p2[1200];
     snprintf(args, sizeof args, "chart examples/tern-mars-2033.ini -o %s/t1 --threads 1 "
              "--set departure.step_days=3 --set arrival.step_days=3", dir);
-    run_result r = run(args);
+    tu_run_result r = tu_run_synodic(args);
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
     ck_assert_ptr_nonnull(strstr(r.out, "minimum c3"));
     ck_assert_ptr_nonnull(strstr(r.out, "wrote"));
     ck_assert_ptr_nonnull(strstr(r.out, "Preliminary"));
-    run_free(&r);
+    tu_run_free(&r);
     snprintf(args, sizeof args, "chart examples/tern-mars-2033.ini -o %s/t2 --threads 2 "
              "--set departure.step_days=3 --set arrival.step_days=3 --quiet", dir);
-    r = run(args);
+    r = tu_run_synodic(args);
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
     ck_assert_str_eq(r.out, "");
-    run_free(&r);
+    tu_run_free(&r);
     const char *ext[] = {"png", "svg", "pdf", "csv", "json"};
     for (int k = 0; k < 5; k++) {
         snprintf(p1, sizeof p1, "%s/t1/tern-mars-2033.%s", dir, ext[k]);
@@ -312,15 +226,15 @@ START_TEST(test_chart_outputs)
             ck_assert_msg(same_file(p1, p2), "%s differs between thread counts", ext[k]);
     }
     snprintf(p1, sizeof p1, "%s/t1/tern-mars-2033.json", dir);
-    char *text = slurp(p1);
-    json_t *j = parse_json(text);
+    char *text = tu_slurp(p1);
+    json_t *j = tu_parse_json(text);
     free(text);
     json_t *opt = json_object_get(j, "optima");
     ck_assert(json_is_array(opt) && json_array_size(opt) >= 2);
     json_t *o0 = json_array_get(opt, 0);
-    expect_string(o0, "minimum_of", "c3_km2_s2");
-    expect_number(o0, "c3_km2_s2");
-    expect_number(o0, "departure_jd");
+    tu_expect_string(o0, "minimum_of", "c3_km2_s2");
+    tu_expect_number(o0, "c3_km2_s2");
+    tu_expect_number(o0, "departure_jd");
     /* the study's limits hold at the reported optimum */
     ck_assert_double_le(json_number_value(json_object_get(o0, "c3_km2_s2")), 20.0);
     ck_assert_double_le(fabs(json_number_value(json_object_get(o0, "dla_deg"))), 28.5);
@@ -360,13 +274,13 @@ START_TEST(test_chart_errors)
             snprintf(args, sizeof args, cases[k].fmt, dir, dir);
         else
             snprintf(args, sizeof args, cases[k].fmt, dir);
-        run_result r = run(args);
+        tu_run_result r = tu_run_synodic(args);
         ck_assert_msg(r.status == cases[k].code, "'%s': exit %d (want %d): %s", args, r.status,
                       cases[k].code, r.err);
         ck_assert_msg(r.out[0] == '\0', "'%s': stdout %s", args, r.out);
         ck_assert_msg(strncmp(r.err, "synodic: error: ", 16) == 0, "'%s': %s", args, r.err);
         ck_assert_msg(strstr(r.err, cases[k].needle), "'%s': '%s' lacks '%s'", args, r.err, cases[k].needle);
-        run_free(&r);
+        tu_run_free(&r);
     }
     /* nothing but the bad study file was left in the directory */
     snprintf(args, sizeof args, "test \"$(ls -A '%s')\" = bad.ini", dir);

@@ -13,12 +13,7 @@
 static sy_catalog *cat;
 static const sy_body *earth, *mars;
 
-static void setup(void)
-{
-    cat = sy_catalog_new();
-    ck_assert_int_eq(sy_catalog_find(cat, "Earth", &earth, NULL), SY_OK);
-    ck_assert_int_eq(sy_catalog_find(cat, "Mars", &mars, NULL), SY_OK);
-}
+static void setup(void) { tu_earth_mars(&cat, &earth, &mars); }
 
 static void teardown(void)
 {
@@ -119,20 +114,6 @@ START_TEST(test_tof_axis)
 }
 END_TEST
 
-static int file_bytes_equal(const char *a, const char *b)
-{
-    FILE *fa = fopen(a, "rb"), *fb = fopen(b, "rb");
-    int same = fa && fb;
-    while (same) {
-        int ca = fgetc(fa), cb = fgetc(fb);
-        if (ca != cb) same = 0;
-        if (ca == EOF || cb == EOF) break;
-    }
-    if (fa) fclose(fa);
-    if (fb) fclose(fb);
-    return same;
-}
-
 /* Same input, same bytes: fields and CSV with 1 and 2 threads. */
 START_TEST(test_thread_determinism)
 {
@@ -155,7 +136,7 @@ START_TEST(test_thread_determinism)
     snprintf(p2, sizeof p2, "%s/b.csv", dir);
     ck_assert_int_eq(sy_report_csv(g1, &st, p1, NULL), SY_OK);
     ck_assert_int_eq(sy_report_csv(g2, &st, p2, NULL), SY_OK);
-    ck_assert(file_bytes_equal(p1, p2));
+    ck_assert(tu_files_equal(p1, p2));
     unlink(p1);
     unlink(p2);
     rmdir(dir);

@@ -8,14 +8,13 @@
 #include "synodic/lvcap.h"
 #include "synodic/period.h"
 #include "synodic/study.h"
-#include "testutil.h"
+#include "testutil_cli.h"
 
 #include <jansson.h>
 #include <stdint.h>
 #include <stdio.h>
 #include <string.h>
 #include <sys/stat.h>
-#include <sys/wait.h>
 #include <unistd.h>
 
 /* ------------------------------------------------------------------ */
@@ -353,50 +352,6 @@ END_TEST
 /* ------------------------------------------------------------------ */
 /* The command                                                         */
 
-typedef struct {
-    int status;
-    char *out, *err;
-} run_result;
-
-static char *slurp(const char *path)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f) return strdup("");
-    fseek(f, 0, SEEK_END);
-    long n = ftell(f);
-    fseek(f, 0, SEEK_SET);
-    char *s = malloc((size_t)n + 1);
-    size_t got = fread(s, 1, (size_t)n, f);
-    s[got] = '\0';
-    fclose(f);
-    return s;
-}
-
-static run_result run(const char *args)
-{
-    const char *bin = getenv("SYNODIC_BIN"), *src = getenv("SYNODIC_SRCDIR");
-    char out[] = "/tmp/sy_per_outXXXXXX", err[] = "/tmp/sy_per_errXXXXXX";
-    close(mkstemp(out));
-    close(mkstemp(err));
-    char cmd[8192];
-    snprintf(cmd, sizeof cmd, "cd '%s' && '%s' %s >'%s' 2>'%s' </dev/null", src ? src : ".",
-             bin ? bin : "./synodic", args, out, err);
-    int st = system(cmd);
-    run_result r;
-    r.status = WIFEXITED(st) ? WEXITSTATUS(st) : 128;
-    r.out = slurp(out);
-    r.err = slurp(err);
-    unlink(out);
-    unlink(err);
-    return r;
-}
-
-static void run_free(run_result *r)
-{
-    free(r->out);
-    free(r->err);
-}
-
 static int count_lines(const char *s)
 {
     int n = 0;
@@ -415,7 +370,7 @@ START_TEST(test_cli_mars_example)
     char dir[] = "/tmp/sy_periodXXXXXX", args[512], path[600];
     ck_assert_ptr_nonnull(mkdtemp(dir));
     snprintf(args, sizeof args, "period examples/tern-mars-2033.ini -o %s --threads 2", dir);
-    run_result r = run(args);
+    tu_run_result r = tu_run_synodic(args);
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
     ck_assert_str_eq(r.err, "");
     ck_assert_ptr_nonnull(strstr(r.out, "Minimax 20-day launch period, fixed arrival"));
@@ -461,24 +416,24 @@ START_TEST(test_cli_mars_example)
     ck_assert(isfinite(c3_fixed) && isfinite(c3_free));
     ck_assert(c3_free <= c3_fixed);
     json_decref(root);
-    run_free(&r);
+    tu_run_free(&r);
 
     /* --arrival fixed --length 10 --quiet: nothing printed, files written */
     snprintf(args, sizeof args, "period examples/tern-mars-2033.ini -o %s/q --arrival fixed --length 10 --quiet", dir);
-    r = run(args);
+    r = tu_run_synodic(args);
     ck_assert_int_eq(r.status, 0);
     ck_assert_str_eq(r.out, "");
     snprintf(path, sizeof path, "%s/q/tern-mars-2033-period.csv", dir);
-    char *csv = slurp(path);
+    char *csv = tu_slurp(path);
     ck_assert_ptr_nonnull(strstr(csv, "minimax,fixed,10,"));
     ck_assert_ptr_null(strstr(csv, "minimax,free,"));
     free(csv);
-    run_free(&r);
+    tu_run_free(&r);
 
     /* `synodic chart` still reads the example; its JSON carries the mass
      * margin at each optimum. */
     snprintf(args, sizeof args, "chart examples/tern-mars-2033.ini -o %s/c --format json --quiet", dir);
-    r = run(args);
+    r = tu_run_synodic(args);
     ck_assert_msg(r.status == 0, "%s", r.err);
     snprintf(path, sizeof path, "%s/c/tern-mars-2033.json", dir);
     root = json_load_file(path, 0, &je);
@@ -488,7 +443,7 @@ START_TEST(test_cli_mars_example)
     ck_assert_double_eq_tol(json_real_value(json_object_get(o, "mass_margin_kg")),
                             json_real_value(json_object_get(o, "injected_mass_kg")) - 1650.0, 1e-6);
     json_decref(root);
-    run_free(&r);
+    tu_run_free(&r);
     snprintf(args, sizeof args, "rm -rf '%s'", dir);
     ck_assert_int_eq(system(args), 0);
 }
@@ -528,14 +483,14 @@ START_TEST(test_cli_errors)
     };
     for (size_t k = 0; k < sizeof cases / sizeof cases[0]; k++) {
         snprintf(args, sizeof args, cases[k].fmt, dir, dir);
-        run_result r = run(args);
+        tu_run_result r = tu_run_synodic(args);
         ck_assert_msg(r.status == cases[k].code, "case %zu: exit %d, want %d: %s", k, r.status,
                       cases[k].code, r.err);
         ck_assert_msg(strstr(r.err, cases[k].want) != NULL, "case %zu: '%s'", k, r.err);
         ck_assert_msg(count_lines(r.err) == 1, "case %zu: not one line: '%s'", k, r.err);
         ck_assert_msg(strncmp(r.err, "synodic: error: ", 16) == 0, "case %zu: %s", k, r.err);
         ck_assert_msg(r.out[0] == '\0', "case %zu: stdout '%s'", k, r.out);
-        run_free(&r);
+        tu_run_free(&r);
     }
     snprintf(args, sizeof args, "rm -rf '%s'", dir);
     ck_assert_int_eq(system(args), 0);

@@ -8,12 +8,11 @@
 #include "synodic/chart.h"
 #include "synodic/study.h"
 #include "synodic/windows.h"
-#include "testutil.h"
+#include "testutil_cli.h"
 
 #include <jansson.h>
 #include <stdio.h>
 #include <string.h>
-#include <sys/wait.h>
 #include <unistd.h>
 
 static sy_catalog *cat;
@@ -223,12 +222,6 @@ static int day_feasible(const sy_body *a, const sy_body *b, const sy_study *st,
     return 0;
 }
 
-static const char *srcdir(void)
-{
-    const char *s = getenv("SYNODIC_SRCDIR");
-    return s ? s : ".";
-}
-
 /* Opens/closes of the example study (limits C3 <= 16, arrival v-inf <=
  * 4.5, |DLA| <= 40), over 2030-2034 to stay quick, against a brute-force
  * per-day feasibility scan with the point query: every day of the run is
@@ -236,7 +229,7 @@ static const char *srcdir(void)
 START_TEST(test_open_close_brute_force)
 {
     char path[4096];
-    snprintf(path, sizeof path, "%s/examples/tern-mars-decade.ini", srcdir());
+    snprintf(path, sizeof path, "%s/examples/tern-mars-decade.ini", tu_srcdir());
     const char *ovr[] = {"departure.start=2030-06-01", "departure.end=2034-06-30"};
     sy_study st;
     sy_error err;
@@ -291,61 +284,10 @@ END_TEST
 
 /* ---- command line ---------------------------------------------------- */
 
-typedef struct {
-    int status;
-    char *out, *err;
-} run_result;
-
-static char *slurp(const char *path)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f) return strdup("");
-    fseek(f, 0, SEEK_END);
-    long n = ftell(f);
-    fseek(f, 0, SEEK_SET);
-    char *s = malloc((size_t)n + 1);
-    size_t got = fread(s, 1, (size_t)n, f);
-    s[got] = '\0';
-    fclose(f);
-    return s;
-}
-
-static run_result run_cmd(const char *cmdline)
-{
-    char out[] = "/tmp/sy_win_outXXXXXX", err[] = "/tmp/sy_win_errXXXXXX";
-    int fo = mkstemp(out), fe = mkstemp(err);
-    close(fo);
-    close(fe);
-    char cmd[8192];
-    snprintf(cmd, sizeof cmd, "cd '%s' && ( %s ) >'%s' 2>'%s' </dev/null", srcdir(), cmdline, out, err);
-    int st = system(cmd);
-    run_result r;
-    r.status = WIFEXITED(st) ? WEXITSTATUS(st) : 128;
-    r.out = slurp(out);
-    r.err = slurp(err);
-    unlink(out);
-    unlink(err);
-    return r;
-}
-
-static run_result run(const char *args)
-{
-    const char *b = getenv("SYNODIC_BIN");
-    char cmd[4096];
-    snprintf(cmd, sizeof cmd, "'%s' %s", b ? b : "./synodic", args);
-    return run_cmd(cmd);
-}
-
-static void run_free(run_result *r)
-{
-    free(r->out);
-    free(r->err);
-}
-
 /* The --json contract of the quick form, exactly. */
 START_TEST(test_cli_json_shape)
 {
-    run_result r = run("windows earth venus 2030 2034 --json");
+    tu_run_result r = tu_run_synodic("windows earth venus 2030 2034 --json");
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
     ck_assert_str_eq(r.err, "");
     json_error_t je;
@@ -376,7 +318,7 @@ START_TEST(test_cli_json_shape)
         ck_assert(c3 > 3 && c3 < 25);
     }
     json_decref(j);
-    run_free(&r);
+    tu_run_free(&r);
 }
 END_TEST
 
@@ -388,9 +330,9 @@ START_TEST(test_atlas_pages)
     ck_assert_ptr_nonnull(mkdtemp(dir));
     char args[512];
     snprintf(args, sizeof args, "windows earth mars 2030 2034 -o %s", dir);
-    run_result r = run(args);
+    tu_run_result r = tu_run_synodic(args);
     ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
-    run_free(&r);
+    tu_run_free(&r);
     char path[1024];
     snprintf(path, sizeof path, "%s/earth-mars-2030-2034.json", dir);
     json_error_t je;
@@ -406,10 +348,10 @@ START_TEST(test_atlas_pages)
     ck_assert_int_eq(nopp, 2); /* 2031 and 2033 */
     char cmd[1024];
     snprintf(cmd, sizeof cmd, "pdfinfo '%s/earth-mars-2030-2034-atlas.pdf' | sed -n 's/^Pages: *//p'", dir);
-    r = run_cmd(cmd);
+    r = tu_run_shell(cmd);
     ck_assert_msg(r.status == 0, "pdfinfo failed: %s", r.err);
     ck_assert_msg(atoi(r.out) == (int)nopp + 1, "pdfinfo says '%s' pages (stderr: %s), want %d", r.out, r.err, (int)nopp + 1);
-    run_free(&r);
+    tu_run_free(&r);
     for (int k = 1; k <= (int)nopp; k++) {
         snprintf(path, sizeof path, "%s/earth-mars-2030-2034-%02d.png", dir, k);
         ck_assert_msg(access(path, R_OK) == 0, "missing %s", path);
@@ -423,14 +365,14 @@ END_TEST
  * stdout. */
 static void expect_error(const char *args, int code, const char *needle)
 {
-    run_result r = run(args);
+    tu_run_result r = tu_run_synodic(args);
     ck_assert_msg(r.status == code, "%s: exit %d (want %d): %s", args, r.status, code, r.err);
     ck_assert_msg(r.out[0] == '\0', "%s: stdout not empty: %s", args, r.out);
     ck_assert_msg(strncmp(r.err, "synodic: error: ", 16) == 0, "%s: %s", args, r.err);
     char *nl = strchr(r.err, '\n');
     ck_assert_msg(nl && nl[1] == '\0', "%s: not one line: %s", args, r.err);
     ck_assert_msg(strstr(r.err, needle), "%s: '%s' not in %s", args, needle, r.err);
-    run_free(&r);
+    tu_run_free(&r);
 }
 
 START_TEST(test_cli_bad_inputs)

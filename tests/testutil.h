@@ -2,8 +2,11 @@
 #ifndef SYNODIC_TESTUTIL_H
 #define SYNODIC_TESTUTIL_H
 
+#include "synodic.h"
+
 #include <check.h>
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 
 /* Relative difference with a floor, so that values near zero compare by
@@ -23,6 +26,31 @@ static inline double tu_dist3(const double a[3], const double b[3])
 {
     double d[3] = {a[0] - b[0], a[1] - b[1], a[2] - b[2]};
     return tu_norm3(d);
+}
+
+/* 1 when both files open and hold the same bytes (a missing file is never
+ * equal), else 0. */
+static inline int tu_files_equal(const char *a, const char *b)
+{
+    FILE *fa = fopen(a, "rb"), *fb = fopen(b, "rb");
+    int same = fa && fb;
+    while (same) {
+        int ca = fgetc(fa), cb = fgetc(fb);
+        if (ca != cb) same = 0;
+        if (ca == EOF || cb == EOF) break;
+    }
+    if (fa) fclose(fa);
+    if (fb) fclose(fb);
+    return same;
+}
+
+/* Fixture of the Earth -> Mars programs: a fresh catalogue and its two
+ * bodies; the caller frees *cat with sy_catalog_free in its teardown. */
+static inline void tu_earth_mars(sy_catalog **cat, const sy_body **earth, const sy_body **mars)
+{
+    *cat = sy_catalog_new();
+    ck_assert_int_eq(sy_catalog_find(*cat, "Earth", earth, NULL), SY_OK);
+    ck_assert_int_eq(sy_catalog_find(*cat, "Mars", mars, NULL), SY_OK);
 }
 
 /* Run a suite and return the process exit status automake expects. */

@@ -30,6 +30,8 @@
  *   - body names are unique (case-insensitive) among the built-ins, their
  *     aliases, previously loaded files and this file.
  * A file is loaded all-or-nothing: on any error no body of it is added.
+ * A UTF-8 byte-order mark before the first line is ignored, as in study
+ * files (the line reader is shared: inifile.c).
  *
  * Validity of a small body's conic: epoch +/- 200 Julian years (clipped
  * to 3000 BC .. 3000 AD, the range of the planet tables).  Two-body motion
@@ -41,6 +43,7 @@
 #include "synodic.h"
 
 #include "elements.h"
+#include "inifile.h"
 
 #include <errno.h>
 #include <ini.h>
@@ -207,10 +210,7 @@ typedef struct {
 
 typedef struct {
     const char *path;
-    FILE *fp;
-    char *buf;
-    size_t cap;
-    int lineno;
+    sy_ini_reader rd;         /* file, line buffer, line number */
     sy_error *err;
     sy_status st;             /* first error */
     const sy_catalog *cat;
@@ -408,7 +408,11 @@ static void section_finish(load_ctx *c)
     c->pend[c->npend++] = b;
 }
 
-static void trim(char *s)
+/* Section headers of bodies files have always been trimmed of blanks and
+ * line ends only; sy_ini_trim() (study files) also trims '\v', '\f' and a
+ * leading '\r', which would accept e.g. "[\vbody X]" that is refused now.
+ * Kept so that moving the shared reader to inifile.c changes nothing. */
+static void trim_blanks(char *s)
 {
     size_t n = strlen(s);
     while (n && (s[n - 1] == ' ' || s[n - 1] == '\t' || s[n - 1] == '\r' ||
@@ -426,106 +430,62 @@ static void section_begin(load_ctx *c, const char *line)
 {
     section_finish(c);
     memset(&c->cur, 0, sizeof c->cur);
-    const char *close = strchr(line, ']');
-    if (!close) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+    char inner[256];
+    if (sy_ini_section_text(line, inner, sizeof inner) != 0) {
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "section header without closing ']'; write [body NAME]");
         return;
     }
-    char inner[256];
-    size_t len = (size_t)(close - line - 1);
-    if (len >= sizeof inner)
-        len = sizeof inner - 1;
-    memcpy(inner, line + 1, len);
-    inner[len] = '\0';
-    trim(inner);
+    trim_blanks(inner);
     if (strncmp(inner, "body", 4) != 0 ||
         (inner[4] != ' ' && inner[4] != '\t' && inner[4] != '\0')) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "unknown section [%.60s]; each body is a section "
                  "[body NAME]", inner);
         return;
     }
     char name[256];
     snprintf(name, sizeof name, "%s", inner + 4);
-    trim(name);
+    trim_blanks(name);
     if (!name[0]) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "section [body] without a name; write [body NAME]");
         return;
     }
     if (strlen(name) >= sizeof c->cur.name) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "[body %.60s...]: name longer than %zu characters",
                  name, sizeof c->cur.name - 1);
         return;
     }
     const sy_body *clash = lookup(c->cat, name);
     if (clash) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "[body %s]: name clashes with the existing body '%s' (%s); "
                  "choose another name", name, clash->name, clash->source);
         return;
     }
     clash = pending_named(c, name);
     if (clash) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "[body %s]: duplicate body name, already defined at %s; "
                  "choose another name", name, clash->source);
         return;
     }
     memcpy(c->cur.name, name, strlen(name) + 1); /* length checked above */
-    c->cur.line = c->lineno;
+    c->cur.line = c->rd.lineno;
     c->cur.open = 1;
 }
 
-/* fgets-style reader for ini_parse_stream(): counts lines (the Debian
- * build of inih does not pass line numbers to the handler), strips
- * leading blanks (so that inih never treats a line as a continuation) and
- * notes section headers as they are read. */
-static char *reader(char *str, int num, void *stream)
+static void on_section(void *user, const char *line)
 {
-    load_ctx *c = stream;
-    ssize_t n = getline(&c->buf, &c->cap, c->fp);
-    if (n < 0)
-        return NULL;
-    c->lineno++;
-    char *s = c->buf;
-    while (*s == ' ' || *s == '\t')
-        s++;
-    /* A NUL would silently cut the line short for inih (and hide the
-     * rest of the value); a bodies file is text. */
-    if (memchr(c->buf, '\0', (size_t)n)) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
-                 "NUL byte in the line; a bodies file is UTF-8 text");
-        snprintf(str, (size_t)num, "\n");
-        return str;
-    }
-    if (strlen(s) + 1 > (size_t)num) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
-                 "line longer than %d characters", num - 2);
-        snprintf(str, (size_t)num, "\n");
-        return str;
-    }
-    if (*s == '[')
-        section_begin(c, s);
-    memcpy(str, s, strlen(s) + 1);
-    return str;
+    section_begin(user, line);
 }
 
-static int parse_number(const char *text, double *out)
+static void on_bad_line(void *user, const char *msg)
 {
-    if (!text || !*text)
-        return 0;
-    char *end;
-    errno = 0;
-    double x = strtod(text, &end);
-    while (*end == ' ' || *end == '\t')
-        end++;
-    if (end == text || *end || errno == ERANGE || !isfinite(x))
-        return 0;
-    *out = x;
-    return 1;
+    load_ctx *c = user;
+    ctx_fail(c, SY_ERR_PARSE, c->rd.lineno, "%s", msg);
 }
 
 static int handler(void *user, const char *sect, const char *name,
@@ -538,7 +498,7 @@ static int handler(void *user, const char *sect, const char *name,
     if (!c->cur.open) {
         /* Errors in a section header are already recorded (st != OK), so
          * this is a key before the first section. */
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "key '%.40s' outside any [body NAME] section; start each "
                  "body with a line [body NAME]", name);
         return 0;
@@ -549,13 +509,13 @@ static int handler(void *user, const char *sect, const char *name,
         if (strcmp(name, key_names[k]) == 0)
             break;
     if (k == K_COUNT) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "[body %s] key '%.40s': unknown key; " ACCEPTED_KEYS,
                  s->name, name);
         return 0;
     }
     if (s->key_line[k]) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "[body %s] key '%s': given twice (first at line %d); "
                  ACCEPTED_KEYS, s->name, name, s->key_line[k]);
         return 0;
@@ -564,18 +524,18 @@ static int handler(void *user, const char *sect, const char *name,
         sy_error derr;
         derr.msg[0] = '\0';
         if (sy_date_parse(value, &s->val[k], &derr) != SY_OK) {
-            ctx_fail(c, SY_ERR_PARSE, c->lineno,
+            ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                      "[body %s] key '%s': %.200s; " ACCEPTED_KEYS, s->name,
                      name, derr.msg);
             return 0;
         }
-    } else if (!parse_number(value, &s->val[k])) {
-        ctx_fail(c, SY_ERR_PARSE, c->lineno,
+    } else if (!sy_ini_number(value, &s->val[k])) {
+        ctx_fail(c, SY_ERR_PARSE, c->rd.lineno,
                  "[body %s] key '%s': '%.40s' is not a finite number; "
                  ACCEPTED_KEYS, s->name, name, value);
         return 0;
     }
-    s->key_line[k] = c->lineno;
+    s->key_line[k] = c->rd.lineno;
     return 1;
 }
 
@@ -590,16 +550,22 @@ sy_status sy_catalog_load(sy_catalog *cat, const char *path, sy_error *err)
     load_ctx c;
     memset(&c, 0, sizeof c);
     c.path = path;
-    c.fp = fp;
+    c.rd.fp = fp;
+    c.rd.kind = "bodies file";
+    /* '\n' and the NUL; study files state one less (study.c). */
+    c.rd.long_reserve = 2;
+    c.rd.on_section = on_section;
+    c.rd.on_bad_line = on_bad_line;
+    c.rd.user = &c;
     c.err = err;
     c.st = SY_OK;
     c.cat = cat;
-    int rc = ini_parse_stream(reader, &c, handler, &c);
+    int rc = ini_parse_stream(sy_ini_read_line, &c.rd, handler, &c);
     section_finish(&c);
     if (ferror(fp) && c.st == SY_OK)
-        ctx_fail(&c, SY_ERR_IO, c.lineno, "read error");
+        ctx_fail(&c, SY_ERR_IO, c.rd.lineno, "read error");
     fclose(fp);
-    free(c.buf);
+    sy_ini_reader_free(&c.rd);
     if (c.st == SY_OK && rc > 0)
         ctx_fail(&c, SY_ERR_PARSE, rc,
                  "cannot read this line: expected 'key = value', a comment "
