@@ -4,7 +4,7 @@
  * Positions of the Major Planets", JPL Solar System Dynamics.  Table 1
  * (1800 AD - 2050 AD), Table 2a (3000 BC - 3000 AD) and the Table 2b extra
  * terms of the mean anomaly for Jupiter..Pluto, copied from the project's
- * reference transcription (shared/reference/mean-elements.txt).  Columns:
+ * reference copy (shared/reference/mean-elements.txt).  Columns:
  * a [au], e, I [deg], L [deg], varpi [deg], Omega [deg]; first row value at
  * J2000, second row rate per Julian century.  "Earth" is the Earth-Moon
  * barycentre (EM-bary) of the tables.
