@@ -10,8 +10,9 @@
  *
  * Cells are independent and computed with OpenMP; each cell's arithmetic
  * does not depend on which thread runs it, so the fields are identical
- * bit for bit for any thread count.  Rows are processed in blocks so that
- * progress can be reported and the sweep cancelled between blocks.
+ * bit for bit for any thread count.  A sweep is one parallel region over
+ * fixed work units; progress is reported, and a cancel request honoured,
+ * as units complete (see sy_grid_compute).
  *
  * Two cell kernels (see SY_KERNEL_* in synodic/grid.h):
  *   - vector (lambert_batch.c): each arrival row is cut into fixed blocks
@@ -238,14 +239,6 @@ static int use_vector_kernel(const sy_grid_spec *s)
     return !(e && strcmp(e, "scalar") == 0);
 }
 
-/* Flight time of cell (i, j) in days, as in the scalar sweep. */
-static double cell_tof_days(const sy_grid_spec *s, size_t i, size_t j, double *jd_dep)
-{
-    *jd_dep = s->x0_jd + (double)i * s->dx_days;
-    return s->y_is_tof ? s->y0 + (double)j * s->dy_days
-                       : s->y0 + (double)j * s->dy_days - *jd_dep;
-}
-
 /* States in structure-of-arrays form for the vector kernel: component c
  * of entry k at r[c][k], the layout of sy_batch_in, so that filling a
  * block is a run of contiguous copies rather than a per-cell shuffle.
@@ -345,23 +338,44 @@ static double gather_block(const sy_grid *g, const state_soa *dep, const state_s
     } else {
         memset(aok, 0, sizeof aok);
     }
-    for (size_t l = 0; l < SY_BATCH_W; l++) {
-        double jd_dep, tof_d = cell_tof_days(spec, i0 + (l < n ? l : 0), j, &jd_dep);
-        in->tof_s[l] = tof_d * SY_DAY_S;
-        unsigned char st = !(tof_d > 0) ? SY_CELL_NOTIME : SY_CELL_OK;
-        if (st == SY_CELL_OK && spec->y_is_tof && !arr && l < n) {
-            /* incommensurate steps: this cell's own arrival state */
+    /* flight times in days as scalar_cell() computes them, lane-wide; lanes
+     * past the row's end repeat the block's first cell */
+    const double x0 = spec->x0_jd, dx = spec->dx_days;
+    const double yj = spec->y0 + (double)j * spec->dy_days;
+    const int tof_axis = spec->y_is_tof;
+    /* (double)i0 + lane is the exact integer i0 + lane (< 2^53), written
+     * so that the index conversion is a 32-bit one that vectorises */
+    const double di0 = (double)i0;
+    const int nl = (int)n;
+    double tof_d[SY_BATCH_W];
+#pragma omp simd
+    for (int l = 0; l < SY_BATCH_W; l++) {
+        double jd_dep = x0 + (di0 + (double)(l < nl ? l : 0)) * dx;
+        double t = tof_axis ? yj : yj - jd_dep;
+        tof_d[l] = t;
+        in->tof_s[l] = t * SY_DAY_S;
+    }
+    if (tof_axis && !arr) {
+        /* incommensurate steps: each cell's own arrival state */
+        for (size_t l = 0; l < n; l++) {
+            if (!(tof_d[l] > 0)) continue;
+            double jd_dep = x0 + (double)(i0 + l) * dx;
             double ta = now_s(), r[3], v[3];
-            aok[l] = sy_body_state(spec->to, jd_dep + tof_d, r, v) == SY_OK;
+            aok[l] = sy_body_state(spec->to, jd_dep + tof_d[l], r, v) == SY_OK;
             extra += now_s() - ta;
             for (int c = 0; c < 3; c++) {
                 in->r2[c][l] = r[c];
                 in->vb2[c][l] = v[c];
             }
         }
-        if (st == SY_CELL_OK && !(dep->ok[i0 + l] && aok[l])) st = SY_CELL_RANGE;
+    }
+    const unsigned char *dok = dep->ok + i0;
+#pragma omp simd
+    for (int l = 0; l < SY_BATCH_W; l++) {
+        unsigned char st = !(tof_d[l] > 0) ? SY_CELL_NOTIME
+                           : (dok[l] && aok[l]) ? SY_CELL_OK : SY_CELL_RANGE;
         b->st0[l] = st;
-        in->live[l] = (unsigned char)(l < n && st == SY_CELL_OK);
+        in->live[l] = (unsigned char)(l < nl && st == SY_CELL_OK);
     }
     return extra;
 }
@@ -397,6 +411,47 @@ static void scatter_block(sy_grid *g, size_t j, size_t i0, const block_buf *b,
             for (size_t l = 0; l < n; l++) F[l] = NAN;
         }
     }
+}
+
+/* Cells per work unit of the scalar sweep. */
+#define SCALAR_UNIT 64
+
+/* One cell by the scalar kernel; returns the seconds spent evaluating its
+ * own arrival state (incommensurate flight-time axis only). */
+static double scalar_cell(sy_grid *g, const state6 *dep, const state6 *arr,
+                          size_t narr, long la, long lb, size_t k)
+{
+    const sy_grid_spec *spec = &g->spec;
+    double extra = 0;
+    size_t i = k % g->nx, j = k / g->nx;
+    double jd_dep = spec->x0_jd + (double)i * spec->dx_days;
+    double tof_d = spec->y_is_tof ? spec->y0 + (double)j * spec->dy_days
+                                  : spec->y0 + (double)j * spec->dy_days - jd_dep;
+    g->status[k] = SY_CELL_OK;
+    if (!(tof_d > 0)) { mark_cell(g, k, SY_CELL_NOTIME); return 0; }
+    const state6 *d = &dep[i];
+    state6 a_local;
+    const state6 *a;
+    if (!spec->y_is_tof) {
+        a = &arr[j];
+    } else if (narr) {
+        a = &arr[(size_t)la * i + (size_t)lb * j];
+    } else {
+        double ta = now_s();
+        a_local.ok = sy_body_state(spec->to, jd_dep + tof_d, a_local.r, a_local.v) == SY_OK;
+        extra += now_s() - ta;
+        a = &a_local;
+    }
+    if (!d->ok || !a->ok) { mark_cell(g, k, SY_CELL_RANGE); return extra; }
+    sy_transfer t;
+    sy_status st = sy_transfer_from_states(d->r, d->v, a->r, a->v, tof_d * SY_DAY_S,
+                                           spec->revs, spec->branch,
+                                           spec->from->gm_km3_s2, spec->from->radius_km,
+                                           spec->to->gm_km3_s2, spec->to->radius_km,
+                                           &spec->opts, &t);
+    if (st != SY_OK) { mark_cell(g, k, cell_status_of(st)); return extra; }
+    store_cell(g, k, &t);
+    return extra;
 }
 
 sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
@@ -459,7 +514,6 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
 #else
     threads = 1;
 #endif
-    const size_t block_rows = g->ny > 64 ? (g->ny + 63) / 64 : 1;
     sy_status result = SY_OK;
     double ephem_cells = 0;
     const int vec = use_vector_kernel(spec);
@@ -487,77 +541,76 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
                 (arr && !soa_from_states(arr, narr, &asoa)))) {
         result = sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the sweep tables");
     }
-    for (size_t j0 = 0; j0 < g->ny && vec && result == SY_OK; j0 += block_rows) {
-        size_t j1 = j0 + block_rows < g->ny ? j0 + block_rows : g->ny;
-        long long units = (long long)((j1 - j0) * nblk);
-        double extra = 0;
-        int nomem = 0;
+    /* One parallel region per sweep over fixed work units (a block of
+     * SY_BATCH_W cells of one row for the vector kernel, a run of
+     * SCALAR_UNIT cells for the scalar one), dynamically scheduled.
+     * Unit boundaries do not depend on the thread count, so neither do
+     * the fields.  Progress is counted in an atomic unit counter; only
+     * the master thread calls the callback (about every 1/64 of the
+     * sweep, and once with 1.0 after the region), so the callback never
+     * runs concurrently with itself.  A cancel request sets a shared
+     * flag and the remaining units are skipped. */
+    const size_t nunit_row = vec ? nblk : 0;
+    const long long units = vec ? (long long)(g->ny * nblk)
+                                : (long long)((cells + SCALAR_UNIT - 1) / SCALAR_UNIT);
+    const long long report_step = units > 64 ? (units + 63) / 64 : 1;
+    long long done_units = 0, next_report = report_step;
+    int cancelled = 0, nomem = 0;
+    double extra = 0;
+    if (result == SY_OK) {
 #pragma omp parallel num_threads(threads) reduction(+:extra) reduction(|:nomem)
         {
-            block_buf *b = aligned_alloc(64, (sizeof *b + 63) / 64 * 64);
-            if (b) memset(b, 0, sizeof *b); /* no lane is ever read uninitialised */
-            else nomem = 1;
+            block_buf *b = NULL;
+            if (vec) {
+                b = aligned_alloc(64, (sizeof *b + 63) / 64 * 64);
+                if (b) memset(b, 0, sizeof *b); /* no lane is ever read uninitialised */
+                else nomem = 1;
+            }
+#ifdef _OPENMP
+            const int master = omp_get_thread_num() == 0;
+#else
+            const int master = 1;
+#endif
 #pragma omp for schedule(dynamic, 4)
             for (long long u = 0; u < units; u++) {
-                if (!b) continue;
-                size_t j = j0 + (size_t)u / nblk, i0 = ((size_t)u % nblk) * SY_BATCH_W;
-                extra += gather_block(g, &dsoa, arr ? &asoa : NULL, la, lb, j, i0, b);
-                int any = 0;
-                for (int l = 0; l < SY_BATCH_W; l++) any |= b->in.live[l];
-                if (any) sy_batch_solve(&ctx, &b->in, &b->out);
-                scatter_block(g, j, i0, b, any);
+                int stop;
+#pragma omp atomic read
+                stop = cancelled;
+                if (stop || (vec && !b)) continue;
+                if (vec) {
+                    size_t j = (size_t)u / nunit_row, i0 = ((size_t)u % nunit_row) * SY_BATCH_W;
+                    extra += gather_block(g, &dsoa, arr ? &asoa : NULL, la, lb, j, i0, b);
+                    int any = 0;
+                    for (int l = 0; l < SY_BATCH_W; l++) any |= b->in.live[l];
+                    if (any) sy_batch_solve(&ctx, &b->in, &b->out);
+                    scatter_block(g, j, i0, b, any);
+                } else {
+                    size_t kb = (size_t)u * SCALAR_UNIT;
+                    size_t ke = kb + SCALAR_UNIT < cells ? kb + SCALAR_UNIT : cells;
+                    for (size_t k = kb; k < ke; k++)
+                        extra += scalar_cell(g, dep, arr, narr, la, lb, k);
+                }
+                long long d;
+#pragma omp atomic capture
+                d = ++done_units;
+                if (master && progress && d >= next_report && d < units) {
+                    next_report = (d / report_step + 1) * report_step;
+                    if (progress((double)d / (double)units, user)) {
+#pragma omp atomic write
+                        cancelled = 1;
+                    }
+                }
             }
             free(b);
         }
-        ephem_cells += extra;
-        if (nomem) {
-            result = sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the sweep buffers");
-            break;
-        }
-        if (progress && progress((double)j1 / (double)g->ny, user)) {
-            result = sy_fail(err, SY_ERR_IO, "interrupted");
-            break;
-        }
     }
-    for (size_t j0 = 0; j0 < g->ny && !vec; j0 += block_rows) {
-        size_t j1 = j0 + block_rows < g->ny ? j0 + block_rows : g->ny;
-        long long kbeg = (long long)(j0 * g->nx), kend = (long long)(j1 * g->nx);
-        double extra = 0;
-#pragma omp parallel for schedule(dynamic, 64) num_threads(threads) reduction(+:extra)
-        for (long long kk = kbeg; kk < kend; kk++) {
-            size_t k = (size_t)kk, i = k % g->nx, j = k / g->nx;
-            double jd_dep = spec->x0_jd + (double)i * spec->dx_days;
-            double tof_d = spec->y_is_tof ? spec->y0 + (double)j * spec->dy_days
-                                          : spec->y0 + (double)j * spec->dy_days - jd_dep;
-            g->status[k] = SY_CELL_OK;
-            if (!(tof_d > 0)) { mark_cell(g, k, SY_CELL_NOTIME); continue; }
-            const state6 *d = &dep[i];
-            state6 a_local;
-            const state6 *a;
-            if (!spec->y_is_tof) {
-                a = &arr[j];
-            } else if (narr) {
-                a = &arr[(size_t)la * i + (size_t)lb * j];
-            } else {
-                double ta = now_s();
-                a_local.ok = sy_body_state(spec->to, jd_dep + tof_d, a_local.r, a_local.v) == SY_OK;
-                extra += now_s() - ta;
-                a = &a_local;
-            }
-            if (!d->ok || !a->ok) { mark_cell(g, k, SY_CELL_RANGE); continue; }
-            sy_transfer t;
-            sy_status st = sy_transfer_from_states(d->r, d->v, a->r, a->v, tof_d * SY_DAY_S,
-                                                   spec->revs, spec->branch, gm1, R1, gm2, R2,
-                                                   &spec->opts, &t);
-            if (st != SY_OK) { mark_cell(g, k, cell_status_of(st)); continue; }
-            store_cell(g, k, &t);
-        }
-        ephem_cells += extra;
-        if (progress && progress((double)j1 / (double)g->ny, user)) {
-            result = sy_fail(err, SY_ERR_IO, "interrupted");
-            break;
-        }
-    }
+    ephem_cells += extra;
+    if (result == SY_OK && nomem)
+        result = sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the sweep buffers");
+    if (result == SY_OK && !cancelled && progress && progress(1.0, user))
+        cancelled = 1;
+    if (result == SY_OK && cancelled)
+        result = sy_fail(err, SY_ERR_IO, "interrupted");
     soa_free(&dsoa);
     soa_free(&asoa);
     g->seconds_ephem += ephem_cells / threads;
