@@ -8,6 +8,7 @@
 #include <stdio.h>
 
 #include "synodic.h"
+#include "synodic/study.h"
 
 /* Exit codes (documented in synodic(1)). */
 enum {
@@ -72,6 +73,10 @@ int cli_find_body(const sy_catalog *cat, const char *name, const sy_body **b);
  * blocked mask.  SIGXFSZ is ignored so a full file-size limit shows up as
  * a write error. */
 void cli_catch_signals(void);
+/* The study's catalogue (built-ins + its bodies file) and its origin and
+ * target bodies; errors name the study file and the [transfer] key. */
+int cli_study_bodies(const sy_study *st, sy_catalog **cat,
+                     const sy_body **from, const sy_body **to);
 /* The output directory must exist, or be creatable in an existing one. */
 int cli_ensure_dir(const char *dir);
 /* A comma list of png, svg, pdf, csv, json as SY_FMT_* bits. */

@@ -108,17 +108,7 @@ int cmd_chart(int argc, char **argv)
     sy_catalog *cat = NULL;
     sy_grid *g = NULL;
     const sy_body *from, *to;
-    if ((rc = cli_catalog(st->bodies_file[0] ? st->bodies_file : NULL, &cat))) goto out;
-    /* Name the study file and key: the body came from there. */
-    for (int k = 0; k < 2; k++) {
-        const char *name = k ? st->target : st->origin;
-        sy_error ferr;
-        if ((s = sy_catalog_find(cat, name, k ? &to : &from, &ferr)) != SY_OK) {
-            rc = cli_error(cli_exit_for(s), "%s: [transfer] key '%s': %s", st->path, k ? "target" : "origin", ferr.msg);
-            goto out;
-        }
-    }
-    if (from == to) { rc = cli_error(CLI_EXIT_INPUT, "%s: origin and target are both %s; choose two different bodies", st->path, from->name); goto out; }
+    if ((rc = cli_study_bodies(st, &cat, &from, &to))) goto out;
     sy_grid_spec spec;
     if ((s = sy_grid_spec_from_study(st, from, to, &spec, &err)) != SY_OK) {
         rc = cli_error(cli_exit_for(s), "%s: %s", st->path, err.msg);

@@ -274,9 +274,7 @@ int cmd_period(int argc, char **argv)
         rc = cli_error(cli_exit_for(s), "%s", err.msg);
         goto out;
     }
-    if ((rc = cli_catalog(st->bodies_file[0] ? st->bodies_file : NULL, &cat))) goto out;
-    if ((rc = cli_find_body(cat, st->origin, &from))) goto out;
-    if ((rc = cli_find_body(cat, st->target, &to))) goto out;
+    if ((rc = cli_study_bodies(st, &cat, &from, &to))) goto out;
     sy_grid_spec spec;
     if ((s = sy_grid_spec_from_study(st, from, to, &spec, &err)) != SY_OK) {
         rc = cli_error(cli_exit_for(s), "%s: %s", st->path, err.msg);

@@ -207,10 +207,7 @@ int cmd_windows(int argc, char **argv)
         s = sy_study_load(argv[optind], sets, nsets, st, &err);
         if (s != SY_OK) { rc = cli_error(cli_exit_for(s), "%s", err.msg); goto out; }
         if (outdir) snprintf(st->out_dir, sizeof st->out_dir, "%s", outdir);
-        if ((rc = cli_catalog(st->bodies_file[0] ? st->bodies_file : NULL, &cat))) goto out;
-        if ((rc = cli_find_body(cat, st->origin, &from))) goto out;
-        if ((rc = cli_find_body(cat, st->target, &to))) goto out;
-        if (from == to) { rc = cli_error(CLI_EXIT_INPUT, "%s: origin and target are both %s; choose two different bodies", st->path, from->name); goto out; }
+        if ((rc = cli_study_bodies(st, &cat, &from, &to))) goto out;
         if ((s = sy_windows_spec_from_study(st, from, to, &spec, &err)) != SY_OK) {
             rc = cli_error(cli_exit_for(s), "%s: %s", st->path, err.msg);
             goto out;

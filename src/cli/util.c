@@ -246,3 +246,23 @@ int cli_progress_bar(double frac, void *user)
     if (pct >= 100) fputc('\n', stderr);
     return 0;
 }
+
+int cli_study_bodies(const sy_study *st, sy_catalog **cat, const sy_body **from,
+                     const sy_body **to)
+{
+    *cat = NULL;
+    int rc = cli_catalog(st->bodies_file[0] ? st->bodies_file : NULL, cat);
+    if (rc) return rc;
+    /* Name the study file and key: the body came from there. */
+    for (int k = 0; k < 2; k++) {
+        const char *name = k ? st->target : st->origin;
+        sy_error ferr;
+        sy_status s = sy_catalog_find(*cat, name, k ? to : from, &ferr);
+        if (s != SY_OK)
+            return cli_error(cli_exit_for(s), "%s: [transfer] key '%s': %s", st->path,
+                             k ? "target" : "origin", ferr.msg);
+    }
+    if (*from == *to)
+        return cli_error(CLI_EXIT_INPUT, "%s: origin and target are both %s; choose two different bodies", st->path, (*from)->name);
+    return 0;
+}

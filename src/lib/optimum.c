@@ -26,7 +26,7 @@ typedef struct {
     double barrier;
 } opt_ctx;
 
-static double field_of(const sy_transfer *t, sy_field f)
+double sy_transfer_field(const sy_transfer *t, sy_field f)
 {
     switch (f) {
     case SY_F_C3: return t->c3_km2_s2;
@@ -78,7 +78,7 @@ static sy_status evaluate(const opt_ctx *c, double dep, double arr,
     t->jd_dep = dep;
     t->jd_arr = arr;
     if (!feasible_transfer(c->st, t) || t->type != c->type) return SY_ERR_RANGE;
-    if (!isfinite(field_of(t, c->field))) return SY_ERR_ARG;
+    if (!isfinite(sy_transfer_field(t, c->field))) return SY_ERR_ARG;
     return SY_OK;
 }
 
@@ -88,7 +88,7 @@ static double objective(const gsl_vector *x, void *p)
     sy_transfer t;
     if (evaluate(c, gsl_vector_get(x, 0), gsl_vector_get(x, 1), &t) != SY_OK)
         return c->barrier;
-    return field_of(&t, c->field);
+    return sy_transfer_field(&t, c->field);
 }
 
 sy_status sy_grid_optimum(const sy_grid *g, const sy_study *st, sy_field field,
@@ -152,7 +152,7 @@ sy_status sy_grid_optimum_of_type(const sy_grid *g, const sy_study *st,
     double dep = gsl_vector_get(m->x, 0), arr = gsl_vector_get(m->x, 1);
     sy_transfer t;
     int refined_ok = evaluate(&c, dep, arr, &t) == SY_OK;
-    if (seed_ok && (!refined_ok || field_of(&t0, field) < field_of(&t, field))) {
+    if (seed_ok && (!refined_ok || sy_transfer_field(&t0, field) < sy_transfer_field(&t, field))) {
         t = t0;
         dep = dep0;
         arr = arr0;
@@ -168,7 +168,7 @@ sy_status sy_grid_optimum_of_type(const sy_grid *g, const sy_study *st,
     opt->jd_dep = dep;
     opt->jd_arr = arr;
     opt->transfer = t;
-    opt->value = field_of(&t, field);
+    opt->value = sy_transfer_field(&t, field);
     opt->iterations = it;
     return SY_OK;
 }

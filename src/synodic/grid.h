@@ -118,6 +118,9 @@ typedef struct {
 sy_status sy_grid_optimum(const sy_grid *g, const sy_study *st,
                           sy_field field, sy_optimum *opt);
 
+/* The value of field f among a transfer's figures (NAN when not set). */
+double sy_transfer_field(const sy_transfer *t, sy_field f);
+
 /* The same, restricted to Type I (type 1) or Type II (type 2) cells;
  * type 0 means either. */
 sy_status sy_grid_optimum_of_type(const sy_grid *g, const sy_study *st,
