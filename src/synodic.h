@@ -67,6 +67,10 @@ const char *sy_version(void);
 #define SY_DAY_S 86400.0
 #define SY_JULIAN_CENTURY_DAYS 36525.0
 #define SY_OBLIQUITY_J2000_ARCSEC 84381.448 /* IAU 1976, J2000 ecliptic   */
+/* Shortest flight the patched-conic model is used for (common practice:
+ * the flight must be long against the hours spent leaving the departure
+ * body); point queries refuse, grids mark such cells. */
+#define SY_MIN_FLIGHT_DAYS 1.0
 
 /* ------------------------------------------------------------------ */
 /* Time (TDB)                                                          */

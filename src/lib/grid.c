@@ -358,7 +358,7 @@ static double gather_block(const sy_grid *g, const state_soa *dep, const state_s
     if (tof_axis && !arr) {
         /* incommensurate steps: each cell's own arrival state */
         for (size_t l = 0; l < n; l++) {
-            if (!(tof_d[l] > 0)) continue;
+            if (!(tof_d[l] >= SY_MIN_FLIGHT_DAYS)) continue;
             double jd_dep = x0 + (double)(i0 + l) * dx;
             double ta = now_s(), r[3], v[3];
             aok[l] = sy_body_state(spec->to, jd_dep + tof_d[l], r, v) == SY_OK;
@@ -372,7 +372,7 @@ static double gather_block(const sy_grid *g, const state_soa *dep, const state_s
     const unsigned char *dok = dep->ok + i0;
 #pragma omp simd
     for (int l = 0; l < SY_BATCH_W; l++) {
-        unsigned char st = !(tof_d[l] > 0) ? SY_CELL_NOTIME
+        unsigned char st = !(tof_d[l] >= SY_MIN_FLIGHT_DAYS) ? SY_CELL_NOTIME
                            : (dok[l] && aok[l]) ? SY_CELL_OK : SY_CELL_RANGE;
         b->st0[l] = st;
         in->live[l] = (unsigned char)(l < nl && st == SY_CELL_OK);
@@ -428,7 +428,7 @@ static double scalar_cell(sy_grid *g, const state6 *dep, const state6 *arr,
     double tof_d = spec->y_is_tof ? spec->y0 + (double)j * spec->dy_days
                                   : spec->y0 + (double)j * spec->dy_days - jd_dep;
     g->status[k] = SY_CELL_OK;
-    if (!(tof_d > 0)) { mark_cell(g, k, SY_CELL_NOTIME); return 0; }
+    if (!(tof_d >= SY_MIN_FLIGHT_DAYS)) { mark_cell(g, k, SY_CELL_NOTIME); return 0; }
     const state6 *d = &dep[i];
     state6 a_local;
     const state6 *a;

@@ -66,7 +66,7 @@ static sy_status evaluate(const opt_ctx *c, double dep, double arr,
     double y = s->y_is_tof ? arr - dep : arr;
     if (dep < c->dep_lo || dep > c->dep_hi || y < c->y_lo || y > c->y_hi)
         return SY_ERR_RANGE;
-    if (!(arr > dep)) return SY_ERR_ARG;
+    if (!(arr - dep >= SY_MIN_FLIGHT_DAYS)) return SY_ERR_ARG;
     double r1[3], v1[3], r2[3], v2[3];
     sy_status stt;
     if ((stt = sy_body_state(s->from, dep, r1, v1)) != SY_OK) return stt;

@@ -28,7 +28,7 @@ static const char *cell_status_name(unsigned char s)
     case SY_CELL_NOSOL: return "no-solution";
     case SY_CELL_DEGENERATE: return "degenerate";
     case SY_CELL_NOCONV: return "not-converged";
-    case SY_CELL_NOTIME: return "arrival-before-departure";
+    case SY_CELL_NOTIME: return "flight-under-one-day";
     case SY_CELL_RANGE: return "outside-ephemeris";
     }
     return "unknown";

@@ -232,7 +232,7 @@ sy_status sy_transfer_compute(const sy_body *from, const sy_body *to,
      * spent leaving the departure body's sphere of influence (common
      * practice): below a day the figures would be numbers without meaning
      * (a one-second Earth-Mars flight would be faster than light). */
-    if ((jd_arr - jd_dep) < 1.0) {
+    if ((jd_arr - jd_dep) < SY_MIN_FLIGHT_DAYS) {
         char a[40], b[40];
         sy_date_format(jd_dep, 1, a, sizeof a);
         sy_date_format(jd_arr, 1, b, sizeof b);

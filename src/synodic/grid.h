@@ -24,7 +24,7 @@ enum {
     SY_CELL_NOSOL = 1,       /* no N-rev solution for this flight time   */
     SY_CELL_DEGENERATE = 2,  /* transfer angle 0 or 180 deg              */
     SY_CELL_NOCONV = 3,      /* the solver did not converge              */
-    SY_CELL_NOTIME = 4,      /* arrival not after departure              */
+    SY_CELL_NOTIME = 4,      /* flight under SY_MIN_FLIGHT_DAYS (or none)  */
     SY_CELL_RANGE = 5        /* an epoch outside the ephemeris validity  */
 };
 
