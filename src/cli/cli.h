@@ -77,6 +77,10 @@ void cli_catch_signals(void);
  * target bodies; errors name the study file and the [transfer] key. */
 int cli_study_bodies(const sy_study *st, sy_catalog **cat,
                      const sy_body **from, const sy_body **to);
+/* Load a study with its --set overrides; -o DIR (outdir, may be NULL)
+ * replaces its output directory.  Caller frees *out. */
+int cli_load_study(const char *path, const char **sets, size_t nsets,
+                   const char *outdir, sy_study **out);
 /* The output directory must exist, or be creatable in an existing one. */
 int cli_ensure_dir(const char *dir);
 /* A comma list of png, svg, pdf, csv, json as SY_FMT_* bits. */

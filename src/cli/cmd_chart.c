@@ -96,14 +96,13 @@ int cmd_chart(int argc, char **argv)
         free(sets);
         return cli_error(CLI_EXIT_USAGE, "chart: expected one STUDY file, got %d argument(s); see 'synodic chart --help'", argc - optind);
     }
-    sy_study *st = calloc(1, sizeof *st);
-    if (!st) { free(sets); return cli_error(CLI_EXIT_INTERNAL, "out of memory"); }
-    sy_error err;
-    sy_status s = sy_study_load(argv[optind], sets, nsets, st, &err);
+    sy_study *st;
+    rc = cli_load_study(argv[optind], sets, nsets, outdir, &st);
     free(sets);
-    if (s != SY_OK) { free(st); return cli_error(cli_exit_for(s), "%s", err.msg); }
+    if (rc) return rc;
+    sy_error err;
+    sy_status s;
     if (formats) st->formats = formats;
-    if (outdir) snprintf(st->out_dir, sizeof st->out_dir, "%s", outdir);
 
     sy_catalog *cat = NULL;
     sy_grid *g = NULL;

@@ -155,13 +155,7 @@ static sy_status write_json(const job *jobs, size_t n, const sy_study *st, const
     json_object_set_new(root, "origin", json_string(g->spec.from->name));
     json_object_set_new(root, "target", json_string(g->spec.to->name));
     json_object_set_new(root, "caution", json_string(SY_CAUTION));
-    json_t *lim = json_object();
-    json_object_set_new(lim, "c3_max_km2_s2", sy_json_number(st->c3_max_km2_s2));
-    json_object_set_new(lim, "vinf_arr_max_km_s", sy_json_number(st->vinf_arr_max_km_s));
-    json_object_set_new(lim, "dla_max_deg", sy_json_number(st->dla_max_deg));
-    json_object_set_new(lim, "tof_min_days", sy_json_number(st->tof_min_days));
-    json_object_set_new(lim, "tof_max_days", sy_json_number(st->tof_max_days));
-    json_object_set_new(root, "constraints", lim);
+    json_object_set_new(root, "constraints", sy_report_limits_json(st));
     if (st->lv_capability[0]) {
         json_t *lv = json_object();
         json_object_set_new(lv, "capability_file", json_string(st->lv_capability));
@@ -246,13 +240,12 @@ int cmd_period(int argc, char **argv)
         free(sets);
         return cli_error(CLI_EXIT_USAGE, "period: expected one STUDY file, got %d argument(s); see 'synodic period --help'", argc - optind);
     }
-    sy_study *st = calloc(1, sizeof *st);
-    if (!st) { free(sets); return cli_error(CLI_EXIT_INTERNAL, "out of memory"); }
-    sy_error err;
-    sy_status s = sy_study_load(argv[optind], sets, nsets, st, &err);
+    sy_study *st;
+    rc = cli_load_study(argv[optind], sets, nsets, outdir, &st);
     free(sets);
-    if (s != SY_OK) { free(st); return cli_error(cli_exit_for(s), "%s", err.msg); }
-    if (outdir) snprintf(st->out_dir, sizeof st->out_dir, "%s", outdir);
+    if (rc) return rc;
+    sy_error err;
+    sy_status s;
     if (length) st->period_length_days = length;
     if (arrival) st->period_arrival = arrival;
 

@@ -266,3 +266,20 @@ int cli_study_bodies(const sy_study *st, sy_catalog **cat, const sy_body **from,
         return cli_error(CLI_EXIT_INPUT, "%s: origin and target are both %s; choose two different bodies", st->path, (*from)->name);
     return 0;
 }
+
+int cli_load_study(const char *path, const char **sets, size_t nsets,
+                   const char *outdir, sy_study **out)
+{
+    *out = NULL;
+    sy_study *st = calloc(1, sizeof *st);
+    if (!st) return cli_error(CLI_EXIT_INTERNAL, "out of memory");
+    sy_error err;
+    sy_status s = sy_study_load(path, sets, nsets, st, &err);
+    if (s != SY_OK) {
+        free(st);
+        return cli_error(cli_exit_for(s), "%s", err.msg);
+    }
+    if (outdir) snprintf(st->out_dir, sizeof st->out_dir, "%s", outdir);
+    *out = st;
+    return 0;
+}

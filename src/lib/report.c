@@ -174,13 +174,7 @@ sy_status sy_report_json(const sy_grid *g, const sy_study *st,
     json_object_set_new(grid, "feasible_cells", json_integer((json_int_t)feasible));
     json_object_set_new(root, "grid", grid);
 
-    json_t *lim = json_object();
-    json_object_set_new(lim, "c3_max_km2_s2", sy_json_number(st->c3_max_km2_s2));
-    json_object_set_new(lim, "vinf_arr_max_km_s", sy_json_number(st->vinf_arr_max_km_s));
-    json_object_set_new(lim, "dla_max_deg", sy_json_number(st->dla_max_deg));
-    json_object_set_new(lim, "tof_min_days", sy_json_number(st->tof_min_days));
-    json_object_set_new(lim, "tof_max_days", sy_json_number(st->tof_max_days));
-    json_object_set_new(root, "constraints", lim);
+    json_object_set_new(root, "constraints", sy_report_limits_json(st));
 
     json_t *orb = json_object();
     if (st->orbits.want_park) json_object_set_new(orb, "park_alt_km", json_real(st->orbits.park_alt_km));
@@ -248,4 +242,15 @@ sy_status sy_report_write_json(json_t *root, const char *path, sy_error *err)
     }
     free(text);
     return s;
+}
+
+json_t *sy_report_limits_json(const sy_study *st)
+{
+    json_t *lim = json_object();
+    json_object_set_new(lim, "c3_max_km2_s2", sy_json_number(st->c3_max_km2_s2));
+    json_object_set_new(lim, "vinf_arr_max_km_s", sy_json_number(st->vinf_arr_max_km_s));
+    json_object_set_new(lim, "dla_max_deg", sy_json_number(st->dla_max_deg));
+    json_object_set_new(lim, "tof_min_days", sy_json_number(st->tof_min_days));
+    json_object_set_new(lim, "tof_max_days", sy_json_number(st->tof_max_days));
+    return lim;
 }

@@ -235,13 +235,7 @@ sy_status sy_windows_write_json(const sy_windows *w, const sy_study *st,
     json_object_set_new(scan, "fine_step_days", json_real(1.0));
     json_object_set_new(scan, "synodic_period_days", json_real(r2(w->synodic_days)));
     json_object_set_new(root, "scan", scan);
-    json_t *lim = json_object();
-    json_object_set_new(lim, "c3_max_km2_s2", sy_json_number(st->c3_max_km2_s2));
-    json_object_set_new(lim, "vinf_arr_max_km_s", sy_json_number(st->vinf_arr_max_km_s));
-    json_object_set_new(lim, "dla_max_deg", sy_json_number(st->dla_max_deg));
-    json_object_set_new(lim, "tof_min_days", sy_json_number(st->tof_min_days));
-    json_object_set_new(lim, "tof_max_days", sy_json_number(st->tof_max_days));
-    json_object_set_new(root, "constraints", lim);
+    json_object_set_new(root, "constraints", sy_report_limits_json(st));
     json_t *arr = json_array();
     for (size_t k = 0; k < w->nwindows; k++) {
         const sy_window *wd = &w->windows[k];

@@ -30,6 +30,8 @@ sy_status sy_report_json(const sy_grid *g, const sy_study *st,
 /* JSON helpers shared by every report writer. */
 json_t *sy_json_number(double v);          /* null when not finite   */
 json_t *sy_report_transfer_json(const sy_transfer *t);
+/* The study's limits, null where a limit is absent. */
+json_t *sy_report_limits_json(const sy_study *st);
 /* Write `root` (stolen) indented, key order kept, 10 significant digits,
  * through a temporary file renamed into place. */
 sy_status sy_report_write_json(json_t *root, const char *path, sy_error *err);
