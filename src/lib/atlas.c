@@ -282,22 +282,12 @@ static void xy_draw_panel(xy_ctx *c, size_t p, int last)
     double pw = x->px1 - x->px0, ph = pl->py1 - pl->py0;
 
     /* grid */
-    cairo_save(cr);
-    cairo_set_dash(cr, NULL, 0, 0);
-    cairo_set_source_rgb(cr, SYC_COL_GRID.r, SYC_COL_GRID.g, SYC_COL_GRID.b);
-    cairo_set_line_width(cr, 0.4 * x->lw);
-    for (int k = 0; k < x->xt.n; k++) {
-        double px = xy_X(x, x->xt.v[k]);
-        cairo_move_to(cr, px, pl->py0);
-        cairo_line_to(cr, px, pl->py1);
+    {
+        double gx[SYC_MAX_TICKS], gy[SYC_MAX_TICKS];
+        for (int k = 0; k < x->xt.n; k++) gx[k] = xy_X(x, x->xt.v[k]);
+        for (int k = 0; k < pl->yt.n; k++) gy[k] = xy_Y(pl, pl->yt.v[k]);
+        syc_draw_grid(cr, x->lw, gx, x->xt.n, gy, pl->yt.n, x->px0, pl->py0, x->px1, pl->py1);
     }
-    for (int k = 0; k < pl->yt.n; k++) {
-        double py = xy_Y(pl, pl->yt.v[k]);
-        cairo_move_to(cr, x->px0, py);
-        cairo_line_to(cr, x->px1, py);
-    }
-    cairo_stroke(cr);
-    cairo_restore(cr);
 
     /* series: lines first (tertiary under secondary under primary), then
      * all symbols above every line */

@@ -1656,21 +1656,27 @@ static void draw_marker_layer(syc_ctx *x)
 
 static void draw_axes(syc_ctx *x)
 {
-    cairo_t *cr = x->cr;
-    /* grid */
+    double px[SYC_MAX_TICKS], py[SYC_MAX_TICKS];
+    for (int k = 0; k < x->xt.n; k++) px[k] = X_of(x, x->xt.v[k]);
+    for (int k = 0; k < x->yt.n; k++) py[k] = Y_of(x, x->yt.v[k]);
+    syc_draw_grid(x->cr, x->lw, px, x->xt.n, py, x->yt.n, x->px0, x->py0, x->px1, x->py1);
+}
+
+void syc_draw_grid(cairo_t *cr, double lw, const double *px, int npx,
+                   const double *py, int npy, double x0, double y0, double x1,
+                   double y1)
+{
     cairo_save(cr);
     cairo_set_source_rgb(cr, SYC_COL_GRID.r, SYC_COL_GRID.g, SYC_COL_GRID.b);
-    cairo_set_line_width(cr, 0.4 * x->lw);
+    cairo_set_line_width(cr, 0.4 * lw);
     cairo_set_dash(cr, NULL, 0, 0);
-    for (int k = 0; k < x->xt.n; k++) {
-        double px = X_of(x, x->xt.v[k]);
-        cairo_move_to(cr, px, x->py0);
-        cairo_line_to(cr, px, x->py1);
+    for (int k = 0; k < npx; k++) {
+        cairo_move_to(cr, px[k], y0);
+        cairo_line_to(cr, px[k], y1);
     }
-    for (int k = 0; k < x->yt.n; k++) {
-        double py = Y_of(x, x->yt.v[k]);
-        cairo_move_to(cr, x->px0, py);
-        cairo_line_to(cr, x->px1, py);
+    for (int k = 0; k < npy; k++) {
+        cairo_move_to(cr, x0, py[k]);
+        cairo_line_to(cr, x1, py[k]);
     }
     cairo_stroke(cr);
     cairo_restore(cr);

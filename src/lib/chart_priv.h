@@ -90,6 +90,12 @@ typedef struct {
 /* Font sizes, line width and margin for a page of W x H points: they
  * grow with the page, much more slowly than the page. */
 SYC_INTERNAL void syc_fonts(syc_ctx *x, double width_in, double height_in);
+/* Light grid lines at the given pixel positions inside [x0,x1]x[y0,y1]
+ * (porkchop plots and xy panels share the look). */
+SYC_INTERNAL void syc_draw_grid(cairo_t *cr, double lw, const double *px, int npx,
+                                const double *py, int npy, double x0, double y0,
+                                double x1, double y1);
+
 /* A pango context for cr with the renderer's fixed metrics. */
 SYC_INTERNAL PangoContext *syc_make_pango(cairo_t *cr);
 
