@@ -15,12 +15,14 @@
  * as units complete (see sy_grid_compute).
  *
  * Two cell kernels (see SY_KERNEL_* in synodic/grid.h):
- *   - vector (lambert_batch.c): each arrival row is cut into fixed blocks
- *     of SY_BATCH_W departure epochs starting at i = 0, 64, 128, ...,
- *     gathered into structure-of-arrays form and solved lane-wide; the
- *     last block of a row is padded with dead lanes rather than run by a
- *     scalar tail, and block boundaries do not depend on the thread count,
- *     so the fields stay bit-identical for any number of threads;
+ *   - vector (lambert_batch.c, block loops in grid_block.c): each arrival
+ *     row is cut into fixed blocks of SY_BATCH_W departure epochs starting
+ *     at i = 0, 64, 128, ..., gathered into structure-of-arrays form and
+ *     solved lane-wide; a work unit is one such column block in a run
+ *     of consecutive rows, each row seeded from the rows before;
+ *     the last block of a row is padded with dead lanes rather than run by
+ *     a scalar tail, and unit boundaries do not depend on the thread
+ *     count, so the fields stay bit-identical for any number of threads;
  *   - scalar: one sy_transfer_from_states() per cell; used for revs >= 1
  *     (the vector kernel is single-revolution), when the build has no
  *     vector kernel, or on request (SYNODIC_KERNEL=scalar).
@@ -29,6 +31,7 @@
 #include "synodic.h"
 #include "synodic/grid.h"
 #include "lambert_batch.h"
+#include "grid_block.h"
 
 #include <math.h>
 #include <stdint.h>
@@ -239,178 +242,53 @@ static int use_vector_kernel(const sy_grid_spec *s)
     return !(e && strcmp(e, "scalar") == 0);
 }
 
-/* States in structure-of-arrays form for the vector kernel: component c
- * of entry k at r[c][k], the layout of sy_batch_in, so that filling a
- * block is a run of contiguous copies rather than a per-cell shuffle.
- * Padded with SY_BATCH_W zero entries past n so that a block starting at
- * any valid index can be copied whole (the lanes past the end are dead). */
-typedef struct {
-    double *r[3], *v[3];
-    unsigned char *ok;
-    double *mem;
-} state_soa;
+/* Work units of the vector sweep: a unit is one block of columns in a
+ * run of consecutive rows, solved in order, so that each row after the
+ * first starts Izzo's iteration from the solutions of the rows before
+ * (sy_block_seed).  x is a smooth function of both dates (also across
+ * the 180-degree ridge, where lambda passes through zero), so an
+ * extrapolation from the rows before is within 1e-4 of the root for most
+ * cells of a 1-day lattice and one Householder step (order four)
+ * finishes it; the first rows of a unit need the initial guess and two
+ * or three steps, so runs are long: the grid is cut into about
+ * UNIT_TARGET units, of at least UNIT_MIN_ROWS rows.  The cut depends on
+ * the grid's size only, never on the thread count, so neither do the
+ * seeds nor any bit of the fields. */
+#define UNIT_TARGET 64
+#define UNIT_MIN_ROWS 16
 
-static int soa_from_states(const state6 *st, size_t n, state_soa *o)
+static size_t unit_rows(size_t ny, size_t nblk)
 {
-    size_t np = n + SY_BATCH_W;
-    o->mem = calloc(6 * np, sizeof(double));
-    o->ok = calloc(np, 1);
-    if (!o->mem || !o->ok) return 0;
-    for (int c = 0; c < 3; c++) {
-        o->r[c] = o->mem + (size_t)c * np;
-        o->v[c] = o->mem + (size_t)(3 + c) * np;
-    }
-    for (size_t k = 0; k < n; k++) {
-        for (int c = 0; c < 3; c++) {
-            o->r[c][k] = st[k].r[c];
-            o->v[c][k] = st[k].v[c];
-        }
-        o->ok[k] = (unsigned char)st[k].ok;
-    }
+    size_t groups = (UNIT_TARGET + nblk - 1) / nblk;
+    size_t rows = (ny + groups - 1) / groups;
+    return rows < UNIT_MIN_ROWS ? UNIT_MIN_ROWS : rows;
+}
+
+/* The vector tables: entry k of st into o (sy_soa_set derives the
+ * position's norm, unit vector and square root once per epoch). */
+static int soa_from_states(const state6 *st, size_t n, sy_soa *o)
+{
+    if (!sy_soa_init(o, n)) return 0;
+    for (size_t k = 0; k < n; k++) sy_soa_set(o, k, st[k].r, st[k].v, st[k].ok);
     return 1;
 }
 
-static void soa_free(state_soa *o)
-{
-    free(o->mem);
-    free(o->ok);
-}
-
-/* Per-thread block buffers: the kernel's input and output and the status
- * that each lane gets when it is not solved (set by gather_block). */
-typedef struct {
-    sy_batch_in in;
-    sy_batch_out out;
-    unsigned char st0[SY_BATCH_W];
-} block_buf;
-
-/* Fill the block of row j that starts at departure index i0 (n <= W
- * cells).  Lanes past the row's end, with no positive flight time or
- * with a state outside the ephemeris are dead, their status in b->st0.
- * dep is indexed by i; arr (when the arrival states are tabulated) by j
- * on an arrival-date axis and by la i + lb j on the flight-time lattice.
- * Returns the seconds spent evaluating per-cell arrival states
- * (incommensurate flight-time axis only). */
-static double gather_block(const sy_grid *g, const state_soa *dep, const state_soa *arr,
-                           long la, long lb, size_t j, size_t i0, block_buf *b)
+/* Incommensurate flight-time axis: each live lane's own arrival state.
+ * Updates *nlive; returns the seconds spent in the ephemeris. */
+static double arrival_states(const sy_grid *g, size_t i0, sy_block *b, int *nlive)
 {
     const sy_grid_spec *spec = &g->spec;
-    sy_batch_in *in = &b->in;
-    const size_t n = g->nx - i0 < SY_BATCH_W ? g->nx - i0 : SY_BATCH_W;
-    double extra = 0;
-    for (int c = 0; c < 3; c++) {
-        memcpy(in->r1[c], dep->r[c] + i0, sizeof in->r1[c]);
-        memcpy(in->vb1[c], dep->v[c] + i0, sizeof in->vb1[c]);
-    }
-    /* arrival-state validity of each lane (1 for an evaluated state) */
-    unsigned char aok[SY_BATCH_W];
-    if (!spec->y_is_tof) {
-        /* one arrival epoch per row: broadcast */
-        for (int c = 0; c < 3; c++) {
-            const double rc = arr->r[c][j], vc = arr->v[c][j];
-#pragma omp simd
-            for (int l = 0; l < SY_BATCH_W; l++) {
-                in->r2[c][l] = rc;
-                in->vb2[c][l] = vc;
-            }
-        }
-        memset(aok, arr->ok[j], sizeof aok);
-    } else if (arr) {
-        size_t k0 = (size_t)la * i0 + (size_t)lb * j;
-        if (la == 1) {
-            /* consecutive departures, consecutive arrivals (padded) */
-            for (int c = 0; c < 3; c++) {
-                memcpy(in->r2[c], arr->r[c] + k0, sizeof in->r2[c]);
-                memcpy(in->vb2[c], arr->v[c] + k0, sizeof in->vb2[c]);
-            }
-            memcpy(aok, arr->ok + k0, sizeof aok);
-        } else {
-            /* strided; lanes past the row end repeat its last cell */
-            for (size_t l = 0; l < SY_BATCH_W; l++) {
-                size_t k = k0 + (size_t)la * (l < n ? l : n - 1);
-                for (int c = 0; c < 3; c++) {
-                    in->r2[c][l] = arr->r[c][k];
-                    in->vb2[c][l] = arr->v[c][k];
-                }
-                aok[l] = arr->ok[k];
-            }
-        }
-    } else {
-        memset(aok, 0, sizeof aok);
-    }
-    /* flight times in days as scalar_cell() computes them, lane-wide; lanes
-     * past the row's end repeat the block's first cell */
-    const double x0 = spec->x0_jd, dx = spec->dx_days;
-    const double yj = spec->y0 + (double)j * spec->dy_days;
-    const int tof_axis = spec->y_is_tof;
-    /* (double)i0 + lane is the exact integer i0 + lane (< 2^53), written
-     * so that the index conversion is a 32-bit one that vectorises */
-    const double di0 = (double)i0;
-    const int nl = (int)n;
-    double tof_d[SY_BATCH_W];
-#pragma omp simd
+    double t0 = now_s();
+    int n = 0;
     for (int l = 0; l < SY_BATCH_W; l++) {
-        double jd_dep = x0 + (di0 + (double)(l < nl ? l : 0)) * dx;
-        double t = tof_axis ? yj : yj - jd_dep;
-        tof_d[l] = t;
-        in->tof_s[l] = t * SY_DAY_S;
+        if (!b->in.live[l]) continue;
+        double jd_dep = spec->x0_jd + (double)(i0 + (size_t)l) * spec->dx_days, r[3], v[3];
+        int ok = sy_body_state(spec->to, jd_dep + b->tof_d[l], r, v) == SY_OK;
+        sy_block_set_arrival(b, l, r, v, ok);
+        n += ok;
     }
-    if (tof_axis && !arr) {
-        /* incommensurate steps: each cell's own arrival state */
-        for (size_t l = 0; l < n; l++) {
-            if (!(tof_d[l] >= SY_MIN_FLIGHT_DAYS)) continue;
-            double jd_dep = x0 + (double)(i0 + l) * dx;
-            double ta = now_s(), r[3], v[3];
-            aok[l] = sy_body_state(spec->to, jd_dep + tof_d[l], r, v) == SY_OK;
-            extra += now_s() - ta;
-            for (int c = 0; c < 3; c++) {
-                in->r2[c][l] = r[c];
-                in->vb2[c][l] = v[c];
-            }
-        }
-    }
-    const unsigned char *dok = dep->ok + i0;
-#pragma omp simd
-    for (int l = 0; l < SY_BATCH_W; l++) {
-        unsigned char st = !(tof_d[l] >= SY_MIN_FLIGHT_DAYS) ? SY_CELL_NOTIME
-                           : (dok[l] && aok[l]) ? SY_CELL_OK : SY_CELL_RANGE;
-        b->st0[l] = st;
-        in->live[l] = (unsigned char)(l < nl && st == SY_CELL_OK);
-    }
-    return extra;
-}
-
-/* Store the block: solved lanes get the kernel's status, type and the
- * fields asked for (as float; the kernel has put NaN in the lanes without
- * a solution); other cells their gather status, type 0 and NaN.  solved =
- * 0 when the kernel did not run (no live lane).  Branch-free loops, so
- * each is a plain vector loop. */
-static void scatter_block(sy_grid *g, size_t j, size_t i0, const block_buf *b,
-                          int solved)
-{
-    const size_t n = g->nx - i0 < SY_BATCH_W ? g->nx - i0 : SY_BATCH_W;
-    const size_t k0 = j * g->nx + i0;
-    unsigned char *restrict st = g->status + k0, *restrict ty = g->type + k0;
-    const sy_batch_in *in = &b->in;
-    const sy_batch_out *bo = &b->out;
-#pragma omp simd
-    for (size_t l = 0; l < n; l++) {
-        unsigned char s = in->live[l] ? bo->status[l] : b->st0[l];
-        st[l] = s;
-        ty[l] = s == SY_CELL_OK ? bo->type[l] : 0;
-    }
-    for (int f = 0; f < SY_NFIELDS; f++) {
-        float *restrict F = g->field[f];
-        if (!F) continue;
-        F += k0;
-        const double *v = bo->f[f];
-        if (solved) {
-#pragma omp simd
-            for (size_t l = 0; l < n; l++) F[l] = (float)v[l];
-        } else {
-            for (size_t l = 0; l < n; l++) F[l] = NAN;
-        }
-    }
+    *nlive = n;
+    return now_s() - t0;
 }
 
 /* Cells per work unit of the scalar sweep. */
@@ -534,15 +412,17 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
         ctx.r_entry_km = R2 + spec->opts.entry_alt_km;
     }
     const size_t nblk = (g->nx + SY_BATCH_W - 1) / SY_BATCH_W;
-    state_soa dsoa, asoa;
+    sy_soa dsoa, asoa;
     memset(&dsoa, 0, sizeof dsoa);
     memset(&asoa, 0, sizeof asoa);
     if (vec && (!soa_from_states(dep, g->nx, &dsoa) ||
                 (arr && !soa_from_states(arr, narr, &asoa)))) {
         result = sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the sweep tables");
     }
+    const sy_sweep sweep = {g->nx, spec->x0_jd, spec->dx_days, spec->y0, spec->dy_days,
+                            spec->y_is_tof, la, lb, &dsoa, arr ? &asoa : NULL};
     /* One parallel region per sweep over fixed work units (a block of
-     * SY_BATCH_W cells of one row for the vector kernel, a run of
+     * column block in a run of rows for the vector kernel, a run of
      * SCALAR_UNIT cells for the scalar one), dynamically scheduled.
      * Unit boundaries do not depend on the thread count, so neither do
      * the fields.  Progress is counted in an atomic unit counter; only
@@ -551,16 +431,18 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
      * runs concurrently with itself.  A cancel request sets a shared
      * flag and the remaining units are skipped. */
     const size_t nunit_row = vec ? nblk : 0;
-    const long long units = vec ? (long long)(g->ny * nblk)
+    const size_t urows = unit_rows(g->ny, nblk);
+    const long long units = vec ? (long long)(((g->ny + urows - 1) / urows) * nblk)
                                 : (long long)((cells + SCALAR_UNIT - 1) / SCALAR_UNIT);
     const long long report_step = units > 64 ? (units + 63) / 64 : 1;
     long long done_units = 0, next_report = report_step;
     int cancelled = 0, nomem = 0;
     double extra = 0;
+    long long nsolved = 0, nsweeps = 0;
     if (result == SY_OK) {
-#pragma omp parallel num_threads(threads) reduction(+:extra) reduction(|:nomem)
+#pragma omp parallel num_threads(threads) reduction(+:extra, nsolved, nsweeps) reduction(|:nomem)
         {
-            block_buf *b = NULL;
+            sy_block *b = NULL;
             if (vec) {
                 b = aligned_alloc(64, (sizeof *b + 63) / 64 * 64);
                 if (b) memset(b, 0, sizeof *b); /* no lane is ever read uninitialised */
@@ -571,19 +453,28 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
 #else
             const int master = 1;
 #endif
-#pragma omp for schedule(dynamic, 4)
+#pragma omp for schedule(dynamic, 1)
             for (long long u = 0; u < units; u++) {
                 int stop;
 #pragma omp atomic read
                 stop = cancelled;
                 if (stop || (vec && !b)) continue;
                 if (vec) {
-                    size_t j = (size_t)u / nunit_row, i0 = ((size_t)u % nunit_row) * SY_BATCH_W;
-                    extra += gather_block(g, &dsoa, arr ? &asoa : NULL, la, lb, j, i0, b);
-                    int any = 0;
-                    for (int l = 0; l < SY_BATCH_W; l++) any |= b->in.live[l];
-                    if (any) sy_batch_solve(&ctx, &b->in, &b->out);
-                    scatter_block(g, j, i0, b, any);
+                    size_t j0 = (size_t)u / nunit_row * urows;
+                    size_t i0 = ((size_t)u % nunit_row) * SY_BATCH_W;
+                    size_t j1 = j0 + urows < g->ny ? j0 + urows : g->ny;
+                    for (size_t j = j0; j < j1; j++) {
+                        int any = sy_block_gather(&sweep, j, i0, b);
+                        if (any && !sweep.arr) extra += arrival_states(g, i0, b, &any);
+                        sy_block_seed(b, j - j0);
+                        if (any) {
+                            sy_batch_solve(&ctx, &b->in, &b->out);
+                            nsolved++;
+                            nsweeps += b->out.iterations;
+                        }
+                        sy_block_scatter(g, j, i0, b, any);
+                        sy_block_keep(b, any);
+                    }
                 } else {
                     size_t kb = (size_t)u * SCALAR_UNIT;
                     size_t ke = kb + SCALAR_UNIT < cells ? kb + SCALAR_UNIT : cells;
@@ -605,14 +496,15 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
         }
     }
     ephem_cells += extra;
+    g->mean_sweeps = nsolved ? (double)nsweeps / (double)nsolved : 0.0;
     if (result == SY_OK && nomem)
         result = sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the sweep buffers");
     if (result == SY_OK && !cancelled && progress && progress(1.0, user))
         cancelled = 1;
     if (result == SY_OK && cancelled)
         result = sy_fail(err, SY_ERR_IO, "interrupted");
-    soa_free(&dsoa);
-    soa_free(&asoa);
+    sy_soa_free(&dsoa);
+    sy_soa_free(&asoa);
     g->seconds_ephem += ephem_cells / threads;
     g->seconds_cells = now_s() - t1 - ephem_cells / threads;
     free(dep);

@@ -41,7 +41,13 @@
  *   - the hyperbolic psi = asinh(...) and the Battin series are only
  *     evaluated in a block where some lane needs them;
  *   - libmvec's functions are accurate to a few ulp, not the < 1 ulp of
- *     the scalar libm.
+ *     the scalar libm;
+ *   - a lane may start from a seed (sy_batch_in.xs; a grid passes its
+ *     neighbours' solutions) instead of the initial guess: the root is
+ *     the same to rounding, reached in fewer steps;
+ *   - the norms and unit vectors of r1 and r2 come with the input
+ *     (sy_batch_position, computed once per epoch by the grid) with the
+ *     same operations the scalar path uses per cell.
  *
  * ISA: the kernel is compiled for x86-64-v4 (AVX-512), v3 (AVX2) and the
  * baseline with gcc's target_clones; the loader picks the variant once
@@ -75,17 +81,23 @@ SY_VEC_DECL double asin(double);
 SY_VEC_DECL double log(double);
 SY_VEC_DECL double exp(double);
 
-#if defined(__x86_64__) && defined(__GNUC__) && !defined(__clang__) && \
-    !defined(__SANITIZE_ADDRESS__)
-#define SY_CLONES __attribute__((target_clones("arch=x86-64-v4", "arch=x86-64-v3", "default")))
-#else
-#define SY_CLONES
-#endif
-
 #define W SY_BATCH_W
+/* sqrt of the dead lanes' radii (1 AU and 1.5 AU), folded at compile time */
+#define SQRT_AU sqrt(SY_AU_KM)
+#define SQRT_AU15 sqrt(1.5 * SY_AU_KM)
 #define LANES _Pragma("omp simd") for (int l = 0; l < W; l++)
 #define SY_PRAGMA(x) _Pragma(#x)
-#define LANES_SUM(v) SY_PRAGMA(omp simd reduction(+:v)) for (int l = 0; l < W; l++)
+/* Number of set lanes of a mask.  A plain loop, not an omp simd
+ * reduction: gcc privatises such a reduction into a stack array and sums
+ * it by scalar loads that wait on the vector store (a store-forwarding
+ * stall, measured as a third of the block loop around the kernel), while
+ * the auto-vectoriser sums the whole-vector loop in registers. */
+static inline __attribute__((always_inline)) long lanes_count(const long *m)
+{
+    long n = 0;
+    for (int l = 0; l < W; l++) n += m[l];
+    return n;
+}
 
 /* As in lambert.c. */
 #define MAX_ITER 50
@@ -96,7 +108,7 @@ SY_VEC_DECL double exp(double);
  * worst check_batch differences are the same with 1e-7, 1e-5 and 1e-4;
  * from 1e-7 to 1e-5 the mean T evaluations per cell on the Earth-Mars
  * bench grid drop from 2.52 to 2.09. */
-#define XTOL_STEP 1e-5
+#define XTOL_STEP 1e-4
 #define XTOL 1e-13
 #define TTOL 4e-15
 #define BATTIN_DIST 0.05
@@ -107,13 +119,14 @@ SY_VEC_DECL double exp(double);
 #define VMAX(a, b) ((a) > (b) ? (a) : (b))
 
 typedef struct {
-    /* geometry */
-    double r1n[W], r2n[W], ir1[3][W], ir2[3][W], it1[3][W], it2[3][W];
+    /* geometry (64-byte aligned arrays: whole-vector loads) */
+    _Alignas(64) double it1[3][W], it2[3][W];
     double lam[W], oml2[W], s[W], c[W], sq12[W], tstar[W];
     /* iteration */
     double x[W], lo[W], hi[W];
     double y[W], eta[W], u[W], sq[W], pa[W], pb[W], psi[W], tb[W];
     double iy[W], iu[W];     /* 1/y and 1/u of the last T evaluation */
+    double iy2[W];           /* 1/(sq u) of the last T evaluation    */
     /* masks as 64-bit integers, the width of a double lane, so that every
      * loop is single-width for the vectoriser */
     long act[W], bad[W], battin[W], hyp[W], st[W], ty[W], nit[W];
@@ -145,8 +158,7 @@ static inline __attribute__((always_inline)) double battin_q(double z)
 /* T(x) of the lanes in w->x (all lanes; dead ones are harmless), into t. */
 static inline __attribute__((always_inline)) void tof_pass(work *w, double *restrict t)
 {
-    long nb = 0, nh = 0;
-    LANES_SUM(nb) {
+    LANES {
         double x = w->x[l], lam = w->lam[l], oml2 = w->oml2[l];
         double y = sqrt(oml2 + lam * lam * x * x);
         double lx = lam * x;
@@ -155,15 +167,19 @@ static inline __attribute__((always_inline)) void tof_pass(work *w, double *rest
         double u = (1.0 - x) * (1.0 + x);
         long b = fabs(x - 1.0) < BATTIN_DIST;
         double sq = b ? 1.0 : sqrt(fabs(u));
-        /* 1/y and 1/u for the derivatives share one division, since a
-         * divide costs several multiplies on every vector unit.  They
-         * only steer the step (a few ulp there change nothing that is
-         * kept), whereas T itself is divided exactly as lambert.c does,
-         * so that the root agrees with the scalar path to rounding. */
-        double ryu = 1.0 / (y * u);
+        /* T, 1/y and 1/u (for the derivatives) share one division
+         * R = 1/(y sq u), since a divide or square root costs several
+         * multiplies on every vector unit and the sweep is bound by them.
+         * This leaves T within a few ulp of lambert.c's two divisions,
+         * which moves the root by a few ulp times T/T' (the agreement
+         * with the scalar path is checked in tests/check_batch.c). */
+        double squ = sq * u;
+        double R = 1.0 / (y * squ);
+        double Ry = R * y;
         w->y[l] = y;
-        w->iy[l] = ryu * u;
-        w->iu[l] = ryu * y;
+        w->iy[l] = R * squ;
+        w->iu[l] = Ry * sq;
+        w->iy2[l] = Ry;
         w->eta[l] = eta;
         w->u[l] = u;
         w->sq[l] = sq;
@@ -171,9 +187,8 @@ static inline __attribute__((always_inline)) void tof_pass(work *w, double *rest
         w->pb[l] = x * y + lam * u;
         w->battin[l] = b;
         w->hyp[l] = (1 - b) & (long)!(u > 0.0);
-        nb += b;
     }
-    LANES_SUM(nh) nh += w->hyp[l];
+    const long nb = lanes_count(w->battin), nh = lanes_count(w->hyp);
     /* ellipse: psi = atan2(sqrt(1 - x^2) eta, x y + lambda (1 - x^2)) */
     LANES w->psi[l] = atan2(w->pa[l], w->pb[l]);
     if (nh) {
@@ -183,9 +198,10 @@ static inline __attribute__((always_inline)) void tof_pass(work *w, double *rest
             w->psi[l] = w->hyp[l] ? ph : w->psi[l];
         }
     }
-    /* T = ((psi / sq) - x + lambda y) / (1 - x^2) (Izzo 2015; lambert.c) */
+    /* T = ((psi / sq) - x + lambda y) / (1 - x^2) (Izzo 2015; lambert.c),
+     * as (psi - sq (x - lambda y)) / (sq (1 - x^2)) = (...) R y */
     LANES {
-        t[l] = (w->psi[l] / w->sq[l] - w->x[l] + w->lam[l] * w->y[l]) / w->u[l];
+        t[l] = (w->psi[l] - w->sq[l] * (w->x[l] - w->lam[l] * w->y[l])) * w->iy2[l];
     }
     if (nb) {
         /* Battin's form near x = 1: T = (eta^3 Q + 4 lambda eta)/2 */
@@ -196,6 +212,48 @@ static inline __attribute__((always_inline)) void tof_pass(work *w, double *rest
             double tb = 0.5 * (eta * eta * eta * battin_q(z) + 4.0 * lam * eta);
             t[l] = w->battin[l] ? tb : t[l];
         }
+    }
+}
+
+/* Initial guess for M = 0 (Izzo 2015, eq. 30; lambert.c):
+ *   T >= T00: x0 = (T00/T)^(2/3) - 1
+ *   T <  T1 : x0 = 5/2 T1 (T1 - T)/(T (1 - lambda^5)) + 1
+ *   else    : x0 = (T/T00)^(ln 2 / ln(T1/T00)) - 1
+ * The power is taken as exp(e ln(base)), with both logarithms
+ * (ln(T1/T00) and ln(base)) from one vector log pass over 2W values:
+ * cheaper than libmvec's pow, whose extra-precise result only seeds
+ * the iteration (the root is set by the Householder steps; on the
+ * 500 x 500 Earth-Mars bench grid the number of block sweeps is the
+ * same as with pow). */
+static inline __attribute__((always_inline)) void initial_guess(work *w)
+{
+    double lg[2 * W] __attribute__((aligned(64)));
+    LANES w->psi[l] = acos(w->lam[l]);
+    LANES {
+        double lam = w->lam[l], ts = w->tstar[l];
+        double t00 = w->psi[l] + lam * sqrt(w->oml2[l]);
+        double t1 = 2.0 / 3.0 * (1.0 - lam * lam * lam);
+        w->pb[l] = t00;
+        w->tb[l] = t1;
+        lg[l] = (t1 > 0.0 ? t1 : 1.0) / t00;
+        lg[W + l] = ts >= t00 ? t00 / ts : ts / t00;
+    }
+    _Pragma("omp simd") for (int l = 0; l < 2 * W; l++) lg[l] = log(lg[l]);
+    LANES {
+        double ts = w->tstar[l], t00 = w->pb[l];
+        double la = lg[l];
+        double ex = ts >= t00 ? 2.0 / 3.0 : (la < 0.0 ? M_LN2 / la : 1.0);
+        w->y[l] = ex * lg[W + l];
+    }
+    LANES w->u[l] = exp(w->y[l]);
+    LANES {
+        double lam = w->lam[l], ts = w->tstar[l];
+        double t00 = w->pb[l], t1 = w->tb[l];
+        double xb = 2.5 * t1 * (t1 - ts) / (ts * (1.0 - lam * lam * lam * lam * lam)) + 1.0;
+        double x0 = ts >= t00 ? w->u[l] - 1.0 : (ts < t1 ? xb : w->u[l] - 1.0);
+        /* bracket (-1, +inf): T decreases monotonically for M = 0 */
+        x0 = (x0 > -1.0) & (x0 < INFINITY) ? x0 : 3.0;
+        w->x[l] = x0;
     }
 }
 
@@ -227,16 +285,29 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         in->vb2[0][l] = live ? in->vb2[0][l] : 0.0;
         in->vb2[1][l] = live ? in->vb2[1][l] : 0.0;
         in->vb2[2][l] = live ? in->vb2[2][l] : 0.0;
+        /* sy_batch_position of those positions */
+        in->r1n[l] = live ? in->r1n[l] : SY_AU_KM;
+        in->ir1[0][l] = live ? in->ir1[0][l] : 1.0;
+        in->ir1[1][l] = live ? in->ir1[1][l] : 0.0;
+        in->ir1[2][l] = live ? in->ir1[2][l] : 0.0;
+        in->sr1[l] = live ? in->sr1[l] : SQRT_AU;
+        in->r1i[l] = live ? in->r1i[l] : 1.0 / SY_AU_KM;
+        in->r2n[l] = live ? in->r2n[l] : 1.5 * SY_AU_KM;
+        in->ir2[0][l] = live ? in->ir2[0][l] : 0.0;
+        in->ir2[1][l] = live ? in->ir2[1][l] : 1.0;
+        in->ir2[2][l] = live ? in->ir2[2][l] : 0.0;
+        in->sr2[l] = live ? in->sr2[l] : SQRT_AU15;
+        in->r2i[l] = live ? in->r2i[l] : 1.0 / (1.5 * SY_AU_KM);
     }
 
     /* ---- geometry (Izzo, Algorithm 1; lambert.c) ---- */
     LANES {
         double a0 = in->r1[0][l], a1 = in->r1[1][l], a2 = in->r1[2][l];
         double b0 = in->r2[0][l], b1 = in->r2[1][l], b2 = in->r2[2][l];
-        double r1n = sqrt(a0 * a0 + a1 * a1 + a2 * a2);
-        double r2n = sqrt(b0 * b0 + b1 * b1 + b2 * b2);
-        double u0 = a0 / r1n, u1 = a1 / r1n, u2 = a2 / r1n;
-        double v0 = b0 / r2n, v1 = b1 / r2n, v2 = b2 / r2n;
+        /* norms and unit vectors come with the input (sy_batch_position) */
+        double r1n = in->r1n[l], r2n = in->r2n[l];
+        double u0 = in->ir1[0][l], u1 = in->ir1[1][l], u2 = in->ir1[2][l];
+        double v0 = in->ir2[0][l], v1 = in->ir2[1][l], v2 = in->ir2[2][l];
         double h0 = u1 * v2 - u2 * v1, h1 = u2 * v0 - u0 * v2, h2 = u0 * v1 - u1 * v0;
         double hn = sqrt(h0 * h0 + h1 * h1 + h2 * h2);
         long degen = (long)!(r1n > 0.0) | (long)!(r2n > 0.0) | (long)!(hn >= PLANE_EPS);
@@ -245,9 +316,11 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         double c0 = b0 - a0, c1 = b1 - a1, c2 = b2 - a2;
         double c = sqrt(c0 * c0 + c1 * c1 + c2 * c2);
         double s = 0.5 * (r1n + r2n + c);
+        /* one division for lambda, 1 - lambda^2 and T*: 1/s */
+        double is = 1.0 / s;
         double s0 = u0 + v0, s1 = u1 + v1, s2 = u2 + v2;
-        double sq12 = sqrt(r1n) * sqrt(r2n);
-        double lam = VMIN(1.0, sq12 * sqrt(s0 * s0 + s1 * s1 + s2 * s2) / (2.0 * s));
+        double sq12 = in->sr1[l] * in->sr2[l];
+        double lam = VMIN(1.0, sq12 * sqrt(s0 * s0 + s1 * s1 + s2 * s2) * (0.5 * is));
         /* h_z < 0: prograde is the long way round */
         double sg = h2 < 0.0 ? -1.0 : 1.0;
         lam *= sg;
@@ -258,58 +331,37 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         w->it2[0][l] = sg * (h1 * v2 - h2 * v1);
         w->it2[1][l] = sg * (h2 * v0 - h0 * v2);
         w->it2[2][l] = sg * (h0 * v1 - h1 * v0);
-        w->ir1[0][l] = u0; w->ir1[1][l] = u1; w->ir1[2][l] = u2;
-        w->ir2[0][l] = v0; w->ir2[1][l] = v1; w->ir2[2][l] = v2;
-        w->r1n[l] = r1n;
-        w->r2n[l] = r2n;
         w->c[l] = c;
         w->s[l] = s;
         w->sq12[l] = sq12;
         w->lam[l] = degen ? 0.5 : lam;
-        w->oml2[l] = degen ? 0.75 : c / s;
-        w->tstar[l] = degen ? 3.0 : sqrt(2.0 * mu / (s * s * s)) * in->tof_s[l];
+        w->oml2[l] = degen ? 0.75 : c * is;
+        w->tstar[l] = degen ? 3.0 : sqrt(2.0 * mu * (is * is * is)) * in->tof_s[l];
         w->st[l] = degen ? SY_CELL_DEGENERATE : SY_CELL_OK;
         w->act[l] = w->act[l] & (1 - degen);
         w->bad[l] = 0;
     }
 
-    /* ---- initial guess for M = 0 (Izzo 2015, eq. 30; lambert.c):
-     *   T >= T00: x0 = (T00/T)^(2/3) - 1
-     *   T <  T1 : x0 = 5/2 T1 (T1 - T)/(T (1 - lambda^5)) + 1
-     *   else    : x0 = (T/T00)^(ln 2 / ln(T1/T00)) - 1
-     * The power is taken as exp(e ln(base)), with both logarithms
-     * (ln(T1/T00) and ln(base)) from one vector log pass over 2W values:
-     * cheaper than libmvec's pow, whose extra-precise result only seeds
-     * the iteration (the root is set by the Householder steps; on the
-     * 500 x 500 Earth-Mars bench grid the number of block sweeps is the
-     * same as with pow). ---- */
-    double lg[2 * W] __attribute__((aligned(64)));
-    LANES w->psi[l] = acos(w->lam[l]);
+    /* Seeds (sy_batch_in.xs): a live lane with a seed in (-1, 1e3)
+     * starts there (code 1 in ty, used here as scratch); dead and
+     * degenerate lanes start at 0, harmless and never counted (code 2);
+     * the initial guess is evaluated only if some lane has no seed. */
     LANES {
-        double lam = w->lam[l], ts = w->tstar[l];
-        double t00 = w->psi[l] + lam * sqrt(w->oml2[l]);
-        double t1 = 2.0 / 3.0 * (1.0 - lam * lam * lam);
-        w->pb[l] = t00;
-        w->tb[l] = t1;
-        lg[l] = (t1 > 0.0 ? t1 : 1.0) / t00;
-        lg[W + l] = ts >= t00 ? t00 / ts : ts / t00;
+        double xs = in->xs[l];
+        long sd = (xs > -1.0) & (xs < 1e3);
+        long code = w->act[l] ? sd : 2;
+        w->ty[l] = code;
+        w->nit[l] = code == 0;
     }
-    _Pragma("omp simd") for (int l = 0; l < 2 * W; l++) lg[l] = log(lg[l]);
-    LANES {
-        double ts = w->tstar[l], t00 = w->pb[l];
-        double la = lg[l];
-        double ex = ts >= t00 ? 2.0 / 3.0 : (la < 0.0 ? M_LN2 / la : 1.0);
-        w->y[l] = ex * lg[W + l];
+    const long nguess = lanes_count(w->nit);
+    if (!nguess) {
+        LANES w->x[l] = 0.0;
+    } else {
+        initial_guess(w);
     }
-    LANES w->u[l] = exp(w->y[l]);
     LANES {
-        double lam = w->lam[l], ts = w->tstar[l];
-        double t00 = w->pb[l], t1 = w->tb[l];
-        double xb = 2.5 * t1 * (t1 - ts) / (ts * (1.0 - lam * lam * lam * lam * lam)) + 1.0;
-        double x0 = ts >= t00 ? w->u[l] - 1.0 : (ts < t1 ? xb : w->u[l] - 1.0);
-        /* bracket (-1, +inf): T decreases monotonically for M = 0 */
-        x0 = (x0 > -1.0) & (x0 < INFINITY) ? x0 : 3.0;
-        w->x[l] = x0;
+        long code = w->ty[l];
+        w->x[l] = code == 1 ? in->xs[l] : (code == 2 ? 0.0 : w->x[l]);
         w->lo[l] = -1.0;
         w->hi[l] = INFINITY;
         w->nit[l] = 0;
@@ -320,8 +372,7 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
     long nact = 1;
     for (it = 1; it <= MAX_ITER && nact; it++) {
         tof_pass(w, t);
-        nact = 0;
-        LANES_SUM(nact) {
+        LANES {
             long a = w->act[l];
             double x = w->x[l], lam = w->lam[l], oml2 = w->oml2[l];
             double tt = t[l], ts = w->tstar[l];
@@ -363,8 +414,8 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
             long still = a & (1 - stop);
             w->nit[l] += a;
             w->act[l] = still;
-            nact += still;
         }
+        nact = lanes_count(w->act);
     }
     out->iterations = it - 1;
     /* lanes still active after MAX_ITER did not converge */
@@ -377,23 +428,26 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
     const double rad2deg = 180.0 / M_PI;
     LANES {
         double x = w->x[l], lam = w->lam[l];
-        double s = w->s[l], c = w->c[l], r1n = w->r1n[l], r2n = w->r2n[l];
+        double s = w->s[l], c = w->c[l], r1n = in->r1n[l], r2n = in->r2n[l];
+        /* divisions by c, r1 and r2 as products with reciprocals (one
+         * division here, the others tabulated per epoch) */
+        double ic = 1.0 / c, ir1n = in->r1i[l], ir2n = in->r2i[l];
         double gamma = sqrt(0.5 * mu * s);
-        double rho = (r1n - r2n) / c;
-        double d0 = w->ir1[0][l] - w->ir2[0][l], d1 = w->ir1[1][l] - w->ir2[1][l],
-               d2 = w->ir1[2][l] - w->ir2[2][l];
-        double sigma = VMIN(1.0, w->sq12[l] * sqrt(d0 * d0 + d1 * d1 + d2 * d2) / c);
+        double rho = (r1n - r2n) * ic;
+        double d0 = in->ir1[0][l] - in->ir2[0][l], d1 = in->ir1[1][l] - in->ir2[1][l],
+               d2 = in->ir1[2][l] - in->ir2[2][l];
+        double sigma = VMIN(1.0, w->sq12[l] * sqrt(d0 * d0 + d1 * d1 + d2 * d2) * ic);
         double y = sqrt(w->oml2[l] + lam * lam * x * x);
-        double vr1 = gamma * ((lam * y - x) - rho * (lam * y + x)) / r1n;
-        double vr2 = -gamma * ((lam * y - x) + rho * (lam * y + x)) / r2n;
+        double vr1 = gamma * ((lam * y - x) - rho * (lam * y + x)) * ir1n;
+        double vr2 = -gamma * ((lam * y - x) + rho * (lam * y + x)) * ir2n;
         double vt = gamma * sigma * (y + lam * x);
-        double vt1 = vt / r1n, vt2 = vt / r2n;
-        double p0 = vr1 * w->ir1[0][l] + vt1 * w->it1[0][l];
-        double p1 = vr1 * w->ir1[1][l] + vt1 * w->it1[1][l];
-        double p2 = vr1 * w->ir1[2][l] + vt1 * w->it1[2][l];
-        double q0 = vr2 * w->ir2[0][l] + vt2 * w->it2[0][l];
-        double q1 = vr2 * w->ir2[1][l] + vt2 * w->it2[1][l];
-        double q2 = vr2 * w->ir2[2][l] + vt2 * w->it2[2][l];
+        double vt1 = vt * ir1n, vt2 = vt * ir2n;
+        double p0 = vr1 * in->ir1[0][l] + vt1 * w->it1[0][l];
+        double p1 = vr1 * in->ir1[1][l] + vt1 * w->it1[1][l];
+        double p2 = vr1 * in->ir1[2][l] + vt1 * w->it1[2][l];
+        double q0 = vr2 * in->ir2[0][l] + vt2 * w->it2[0][l];
+        double q1 = vr2 * in->ir2[1][l] + vt2 * w->it2[1][l];
+        double q2 = vr2 * in->ir2[2][l] + vt2 * w->it2[2][l];
         out->v1[0][l] = p0; out->v1[1][l] = p1; out->v1[2][l] = p2;
         out->v2[0][l] = q0; out->v2[1][l] = q1; out->v2[2][l] = q2;
         double e0 = p0 - in->vb1[0][l], e1 = p1 - in->vb1[1][l], e2 = p2 - in->vb1[2][l];
@@ -410,8 +464,8 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         w->st[l] = (okst & (1 - ok)) ? SY_CELL_NOCONV : w->st[l];
         /* type from the sign of r1 x r2 (transfer.c) */
         double hz = in->r1[0][l] * in->r2[1][l] - in->r1[1][l] * in->r2[0][l];
-        double cth = (in->r1[0][l] * in->r2[0][l] + in->r1[1][l] * in->r2[1][l] +
-                      in->r1[2][l] * in->r2[2][l]) / (r1n * r2n);
+        double cth = in->ir1[0][l] * in->ir2[0][l] + in->ir1[1][l] * in->ir2[1][l] +
+                     in->ir1[2][l] * in->ir2[2][l];
         cth = VMAX(-1.0, VMIN(1.0, cth));
         w->ty[l] = (hz >= 0.0) & (cth > -1.0) ? 1 : 2;
         w->pa[l] = cth;
@@ -421,10 +475,15 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         w->eta[l] = sqrt(c3a);
         /* cheap figures are stored for every lane (no masked stores) */
         out->f[SY_F_C3][l] = c3;
-        out->f[SY_F_VINF_DEP][l] = sqrt(c3);
         out->f[SY_F_VINF_ARR][l] = w->eta[l];
         out->f[SY_F_C3_ARR][l] = c3a;
-        out->f[SY_F_TOF][l] = in->tof_s[l] / SY_DAY_S;
+    }
+    /* figures that cost a square root or a division: only when asked */
+    if (fm & (1u << SY_F_VINF_DEP)) {
+        LANES out->f[SY_F_VINF_DEP][l] = sqrt(w->u[l]);
+    }
+    if (fm & (1u << SY_F_TOF)) {
+        LANES out->f[SY_F_TOF][l] = in->tof_s[l] / SY_DAY_S;
     }
     if (fm & (1u << SY_F_ANGLE)) {
         LANES {
@@ -469,14 +528,14 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         LANES {
             double r0 = in->r1[0][l], r1 = in->r1[1][l], r2 = in->r1[2][l];
             double v0 = out->v1[0][l], v1 = out->v1[1][l], v2 = out->v1[2][l];
-            double r1n = sqrt(r0 * r0 + r1 * r1 + r2 * r2);
+            double r1n = in->r1n[l];
             double h0 = r1 * v2 - r2 * v1, h1 = r2 * v0 - r0 * v2, h2 = r0 * v1 - r1 * v0;
             double q0 = v1 * h2 - v2 * h1, q1 = v2 * h0 - v0 * h2, q2 = v0 * h1 - v1 * h0;
             double e0 = q0 / mu - r0 / r1n, e1 = q1 / mu - r1 / r1n, e2 = q2 / mu - r2 / r1n;
             double e = sqrt(e0 * e0 + e1 * e1 + e2 * e2);
             double p = (h0 * h0 + h1 * h1 + h2 * h2) / mu;
             double rp = p / (1.0 + e);
-            double r2n = w->r2n[l];
+            double r2n = in->r2n[l];
             double rend = r1n < r2n ? r1n : r2n;
             double cn = (e0 * r0 + e1 * r1 + e2 * r2) / ((e < 1e-12 ? 1.0 : e) * r1n);
             cn = VMAX(-1.0, VMIN(1.0, cn));
@@ -537,11 +596,25 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         double *v = out->f[f];
         LANES v[l] = w->bad[l] ? v[l] : NAN;
     }
+    LANES out->x[l] = w->bad[l] ? w->x[l] : NAN;
 }
 
 int sy_batch_available(void)
 {
     return 1;
+}
+
+void sy_batch_derive(sy_batch_in *in)
+{
+    for (int l = 0; l < W; l++) {
+        double r[3], u[3];
+        for (int c = 0; c < 3; c++) r[c] = in->r1[c][l];
+        sy_batch_position(r, &in->r1n[l], u, &in->sr1[l], &in->r1i[l]);
+        for (int c = 0; c < 3; c++) in->ir1[c][l] = u[c];
+        for (int c = 0; c < 3; c++) r[c] = in->r2[c][l];
+        sy_batch_position(r, &in->r2n[l], u, &in->sr2[l], &in->r2i[l]);
+        for (int c = 0; c < 3; c++) in->ir2[c][l] = u[c];
+    }
 }
 
 const char *sy_batch_isa(void)
@@ -568,6 +641,11 @@ void sy_batch_solve(const sy_batch_ctx *ctx, sy_batch_in *in,
 int sy_batch_available(void)
 {
     return 0;
+}
+
+void sy_batch_derive(sy_batch_in *in)
+{
+    (void)in;
 }
 
 const char *sy_batch_isa(void)

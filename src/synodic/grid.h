@@ -63,6 +63,8 @@ typedef struct {
     double seconds_ephem;       /* time spent tabulating states          */
     double seconds_cells;       /* time spent solving cells              */
     const char *kernel;         /* "scalar" or "vector ..." (what ran)   */
+    double mean_sweeps;         /* vector kernel: Householder sweeps per
+                                 * solved block (0 for the scalar one)   */
 } sy_grid;
 
 /* Build the grid spec of a study with its bodies. */

@@ -212,6 +212,7 @@ int main(int argc, char **argv)
            sy_grid_arr_jd(g, (double)(kmin % g->nx), (double)(kmin / g->nx)),
            ru.ru_maxrss / 1024.0, ru.ru_maxrss * 1024.0 / (double)cells, best_cpu,
            cells / best_cpu);
+    printf(", \"mean_sweeps\": %.3f", g->mean_sweeps);
     if (render) printf(", \"render_seconds\": %.3f", render_s);
     printf("}\n");
     sy_grid_free(g);
