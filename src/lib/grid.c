@@ -332,13 +332,30 @@ static double scalar_cell(sy_grid *g, const state6 *dep, const state6 *arr,
     return extra;
 }
 
+/* The spec's checks shared by compute and recompute. */
+static sy_status check_spec(const sy_grid_spec *spec, sy_error *err)
+{
+    if (!spec->from || !spec->to || spec->nx == 0 || spec->ny == 0 ||
+        !(spec->dx_days > 0) || !(spec->dy_days > 0))
+        return sy_fail(err, SY_ERR_ARG, "empty grid or non-positive step");
+    return SY_OK;
+}
+
+/* 1 when the grid holds field f for this spec. */
+static int field_wanted(const sy_grid_spec *spec, int f)
+{
+    return field_available(spec, (sy_field)f) &&
+           (!spec->fields || (spec->fields & SY_FIELD_BIT(f)));
+}
+
+static sy_status sweep(sy_grid *g, sy_progress_fn progress, void *user, sy_error *err);
+
 sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
                           void *user, sy_grid **out, sy_error *err)
 {
     *out = NULL;
-    if (!spec->from || !spec->to || spec->nx == 0 || spec->ny == 0 ||
-        !(spec->dx_days > 0) || !(spec->dy_days > 0))
-        return sy_fail(err, SY_ERR_ARG, "empty grid or non-positive step");
+    sy_status r = check_spec(spec, err);
+    if (r != SY_OK) return r;
     size_t need = sy_grid_bytes(spec), avail = memory_available();
     if (need == SIZE_MAX || need > avail / 10 * 8) {
         char nb[64], ab[64];
@@ -356,16 +373,47 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
     g->type = calloc(cells, 1);
     int ok = g->status && g->type;
     for (int f = 0; f < SY_NFIELDS && ok; f++)
-        if (field_available(spec, (sy_field)f) &&
-            (!spec->fields || (spec->fields & SY_FIELD_BIT(f)))) {
+        if (field_wanted(spec, f)) {
             g->field[f] = malloc(cells * sizeof(float));
             ok = g->field[f] != NULL;
         }
+    if (!ok) {
+        sy_grid_free(g);
+        return sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the grid");
+    }
+    r = sweep(g, progress, user, err);
+    if (r != SY_OK) {
+        sy_grid_free(g);
+        return r;
+    }
+    *out = g;
+    return SY_OK;
+}
+
+sy_status sy_grid_recompute(sy_grid *g, const sy_grid_spec *spec, sy_progress_fn progress,
+                            void *user, sy_error *err)
+{
+    sy_status r = check_spec(spec, err);
+    if (r != SY_OK) return r;
+    int same = spec->nx == g->nx && spec->ny == g->ny;
+    for (int f = 0; f < SY_NFIELDS && same; f++)
+        same = field_wanted(spec, f) == (g->field[f] != NULL);
+    if (!same)
+        return sy_fail(err, SY_ERR_ARG, "a grid is recomputed only for a spec of its own size and fields (%zu x %zu); compute a new grid instead", g->nx, g->ny);
+    g->spec = *spec;
+    return sweep(g, progress, user, err);
+}
+
+/* Tabulate the states and solve every cell of g (g->spec). */
+static sy_status sweep(sy_grid *g, sy_progress_fn progress, void *user, sy_error *err)
+{
+    const sy_grid_spec *spec = &g->spec;
+    const size_t cells = g->nx * g->ny;
     size_t narr = n_arrival_states(spec);
     state6 *dep = malloc(g->nx * sizeof *dep);
     state6 *arr = narr ? malloc(narr * sizeof *arr) : NULL;
-    if (!ok || !dep || (narr && !arr)) {
-        free(dep); free(arr); sy_grid_free(g);
+    if (!dep || (narr && !arr)) {
+        free(dep); free(arr);
         return sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the grid");
     }
 
@@ -445,8 +493,12 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
             sy_block *b = NULL;
             if (vec) {
                 b = aligned_alloc(64, (sizeof *b + 63) / 64 * 64);
-                if (b) memset(b, 0, sizeof *b); /* no lane is ever read uninitialised */
-                else nomem = 1;
+                if (b) {
+                    memset(b, 0, sizeof *b); /* no lane is ever read uninitialised */
+                    b->dep_i0 = SIZE_MAX;
+                } else {
+                    nomem = 1;
+                }
             }
 #ifdef _OPENMP
             const int master = omp_get_thread_num() == 0;
@@ -467,6 +519,9 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
                         int any = sy_block_gather(&sweep, j, i0, b);
                         if (any && !sweep.arr) extra += arrival_states(g, i0, b, &any);
                         sy_block_seed(b, j - j0);
+                        /* the grid lines of the next row (see grid_block.h) */
+                        if (j == j0) sy_block_prefetch(g, j, i0);
+                        if (j + 1 < j1) sy_block_prefetch(g, j + 1, i0);
                         if (any) {
                             sy_batch_solve(&ctx, &b->in, &b->out);
                             nsolved++;
@@ -509,12 +564,7 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
     g->seconds_cells = now_s() - t1 - ephem_cells / threads;
     free(dep);
     free(arr);
-    if (result != SY_OK) {
-        sy_grid_free(g);
-        return result;
-    }
-    *out = g;
-    return SY_OK;
+    return result;
 }
 
 int sy_grid_cell_feasible(const sy_grid *g, const sy_study *st, size_t k)

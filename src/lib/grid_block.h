@@ -41,6 +41,10 @@ typedef struct {
     unsigned char st0[SY_BATCH_W]; /* status of lanes that are not solved */
     _Alignas(64) double tof_d[SY_BATCH_W]; /* flight time of each lane, days */
     long tokl[SY_BATCH_W];          /* scratch: 1 where the flight time is valid */
+    /* column block whose departure states the inputs hold, unmodified by
+     * the kernel (dep_i0 = SIZE_MAX: none), so that the rows of a work
+     * unit after the first copy only the arrival side */
+    size_t dep_i0;
     /* x of the rows before, same columns (NaN: none), for the seeds */
     double xp1[SY_BATCH_W], xp2[SY_BATCH_W], xp3[SY_BATCH_W];
 } sy_block;
@@ -70,6 +74,14 @@ void sy_block_set_arrival(sy_block *b, int l, const double r[3], const double v[
 void sy_block_seed(sy_block *b, size_t k);
 /* Keep the block's solutions as the next row's seeds (solved = 0: none). */
 void sy_block_keep(sy_block *b, int solved);
+/* Ask the cache for the lines that sy_block_scatter will write for row j.
+ * A work unit walks down a column block, so consecutive stores are a row
+ * apart (nx floats per field), a stride the hardware prefetchers do not
+ * follow: without this the scatter waits on a read-for-ownership miss per
+ * line and the store buffer backs up into the kernel.  Called one row
+ * ahead, so the lines arrive in L2 while the kernel computes (measured
+ * on the bench grid, all fields: 14 -> 22 M cells/s on one thread). */
+void sy_block_prefetch(const sy_grid *g, size_t j, size_t i0);
 /* Store the block into row j of the grid: statuses, types and, as float,
  * the fields the grid holds (solved = 0: the kernel did not run). */
 void sy_block_scatter(sy_grid *g, size_t j, size_t i0, const sy_block *b, int solved);

@@ -270,7 +270,10 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
     LANES {
         w->act[l] = in->live[l] != 0;
     }
-    LANES {
+    /* (a block without dead lanes, the common case, is left untouched:
+     * the caller may keep its inputs for the next block) */
+    out->in_modified = lanes_count(w->act) != W;
+    if (out->in_modified) LANES {
         long live = w->act[l];
         in->r1[0][l] = live ? in->r1[0][l] : SY_AU_KM;
         in->r1[1][l] = live ? in->r1[1][l] : 0.0;

@@ -46,6 +46,7 @@ typedef struct {
     unsigned char status[SY_BATCH_W];
     unsigned char type[SY_BATCH_W];   /* 1 or 2 */
     int iterations;                   /* Householder sweeps of the block */
+    int in_modified;                  /* 1: dead lanes' inputs replaced  */
     unsigned char iters[SY_BATCH_W];  /* T evaluations of each lane      */
     /* values of the requested fields (bit 1u << SY_F_xxx of `fields`),
      * NaN in lanes that are not live or whose status is not SY_CELL_OK;

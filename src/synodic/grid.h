@@ -80,6 +80,13 @@ typedef int (*sy_progress_fn)(double fraction, void *user);
  * when the progress callback cancels. */
 sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
                           void *user, sy_grid **out, sy_error *err);
+/* Compute again into an existing grid, for a spec of the same size
+ * (nx, ny) and fields: other dates, steps, bodies or transfer options,
+ * without allocating (and first touching) the grid's memory again.
+ * SY_ERR_ARG when the layout differs; on any failure the grid's contents
+ * are unspecified (free it or recompute). */
+sy_status sy_grid_recompute(sy_grid *g, const sy_grid_spec *spec, sy_progress_fn progress,
+                            void *user, sy_error *err);
 void sy_grid_free(sy_grid *g);
 
 static inline double sy_grid_x_jd(const sy_grid *g, double i)
