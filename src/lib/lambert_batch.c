@@ -528,19 +528,23 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
     if (fm & (1u << SY_F_MIN_SUN)) {
         /* closest approach to the Sun along the arc (transfer.c
          * min_sun_distance_km, revs = 0) */
+        const double imu = 1.0 / mu;
         LANES {
             double r0 = in->r1[0][l], r1 = in->r1[1][l], r2 = in->r1[2][l];
             double v0 = out->v1[0][l], v1 = out->v1[1][l], v2 = out->v1[2][l];
             double r1n = in->r1n[l];
             double h0 = r1 * v2 - r2 * v1, h1 = r2 * v0 - r0 * v2, h2 = r0 * v1 - r1 * v0;
             double q0 = v1 * h2 - v2 * h1, q1 = v2 * h0 - v0 * h2, q2 = v0 * h1 - v1 * h0;
-            double e0 = q0 / mu - r0 / r1n, e1 = q1 / mu - r1 / r1n, e2 = q2 / mu - r2 / r1n;
+            /* divisions by mu and r1 as products with reciprocals (the
+             * unit vector of r1 is tabulated), two left per lane */
+            double u0 = in->ir1[0][l], u1 = in->ir1[1][l], u2 = in->ir1[2][l];
+            double e0 = q0 * imu - u0, e1 = q1 * imu - u1, e2 = q2 * imu - u2;
             double e = sqrt(e0 * e0 + e1 * e1 + e2 * e2);
-            double p = (h0 * h0 + h1 * h1 + h2 * h2) / mu;
+            double p = (h0 * h0 + h1 * h1 + h2 * h2) * imu;
             double rp = p / (1.0 + e);
             double r2n = in->r2n[l];
             double rend = r1n < r2n ? r1n : r2n;
-            double cn = (e0 * r0 + e1 * r1 + e2 * r2) / ((e < 1e-12 ? 1.0 : e) * r1n);
+            double cn = (e0 * u0 + e1 * u1 + e2 * u2) / (e < 1e-12 ? 1.0 : e);
             cn = VMAX(-1.0, VMIN(1.0, cn));
             w->lo[l] = cn;
             w->hi[l] = rp < rend ? rp : rend;
