@@ -92,12 +92,13 @@ SY_VEC_DECL double exp(double);
  * it by scalar loads that wait on the vector store (a store-forwarding
  * stall, measured as a third of the block loop around the kernel), while
  * the auto-vectoriser sums the whole-vector loop in registers. */
-static inline __attribute__((always_inline)) long lanes_count(const long *m)
+static inline __attribute__((always_inline)) long lanes_count_n(const long *m, int width)
 {
     long n = 0;
-    for (int l = 0; l < W; l++) n += m[l];
+    for (int l = 0; l < width; l++) n += m[l];
     return n;
 }
+#define lanes_count(m) lanes_count_n((m), W)
 
 /* As in lambert.c. */
 #define MAX_ITER 50
@@ -132,6 +133,18 @@ typedef struct {
     long act[W], bad[W], battin[W], hyp[W], st[W], ty[W], nit[W];
 } work;
 
+/* Lanes of the block that finishes the last few unconverged lanes of a
+ * full block (finish_few): one AVX-512 vector, two AVX2 or four SSE2
+ * vectors, so again no scalar remainder. */
+#define CW 8
+typedef struct {
+    _Alignas(64) double x[CW];
+    double lo[CW], hi[CW], lam[CW], oml2[CW], tstar[CW];
+    double y[CW], eta[CW], u[CW], sq[CW], pa[CW], pb[CW], psi[CW];
+    double iy[CW], iu[CW], iy2[CW];
+    long act[CW], bad[CW], battin[CW], hyp[CW], nit[CW];
+} cwork;
+
 /* Battin's Q(z) = 4/3 2F1(3, 1; 5/2; z) (Izzo): the series' term ratio is
  * (3 + j)(1 + j) / ((5/2 + j)(j + 1)) z = (3 + j)/(5/2 + j) z, summed by
  * Horner with a fixed count.  Where it is used, |x - 1| < 0.05, z =
@@ -155,65 +168,23 @@ static inline __attribute__((always_inline)) double battin_q(double z)
     return 4.0 / 3.0 * acc;
 }
 
-/* T(x) of the lanes in w->x (all lanes; dead ones are harmless), into t. */
-static inline __attribute__((always_inline)) void tof_pass(work *w, double *restrict t)
-{
-    LANES {
-        double x = w->x[l], lam = w->lam[l], oml2 = w->oml2[l];
-        double y = sqrt(oml2 + lam * lam * x * x);
-        double lx = lam * x;
-        /* eta = y - lambda x without cancellation (lambert.c lam_eta) */
-        double eta = lx > 0.0 ? oml2 / (y + lx) : y - lx;
-        double u = (1.0 - x) * (1.0 + x);
-        long b = fabs(x - 1.0) < BATTIN_DIST;
-        double sq = b ? 1.0 : sqrt(fabs(u));
-        /* T, 1/y and 1/u (for the derivatives) share one division
-         * R = 1/(y sq u), since a divide or square root costs several
-         * multiplies on every vector unit and the sweep is bound by them.
-         * This leaves T within a few ulp of lambert.c's two divisions,
-         * which moves the root by a few ulp times T/T' (the agreement
-         * with the scalar path is checked in tests/check_batch.c). */
-        double squ = sq * u;
-        double R = 1.0 / (y * squ);
-        double Ry = R * y;
-        w->y[l] = y;
-        w->iy[l] = R * squ;
-        w->iu[l] = Ry * sq;
-        w->iy2[l] = Ry;
-        w->eta[l] = eta;
-        w->u[l] = u;
-        w->sq[l] = sq;
-        w->pa[l] = sq * eta;
-        w->pb[l] = x * y + lam * u;
-        w->battin[l] = b;
-        w->hyp[l] = (1 - b) & (long)!(u > 0.0);
-    }
-    const long nb = lanes_count(w->battin), nh = lanes_count(w->hyp);
-    /* ellipse: psi = atan2(sqrt(1 - x^2) eta, x y + lambda (1 - x^2)) */
-    LANES w->psi[l] = atan2(w->pa[l], w->pb[l]);
-    if (nh) {
-        /* hyperbola: psi = asinh(sqrt(x^2 - 1) eta) */
-        LANES {
-            double ph = asinh(w->pa[l]);
-            w->psi[l] = w->hyp[l] ? ph : w->psi[l];
-        }
-    }
-    /* T = ((psi / sq) - x + lambda y) / (1 - x^2) (Izzo 2015; lambert.c),
-     * as (psi - sq (x - lambda y)) / (sq (1 - x^2)) = (...) R y */
-    LANES {
-        t[l] = (w->psi[l] - w->sq[l] * (w->x[l] - w->lam[l] * w->y[l])) * w->iy2[l];
-    }
-    if (nb) {
-        /* Battin's form near x = 1: T = (eta^3 Q + 4 lambda eta)/2 */
-        LANES {
-            double eta = w->eta[l], lam = w->lam[l];
-            double s1 = 0.5 * (1.0 - lam - w->x[l] * eta);
-            double z = w->battin[l] ? s1 : 0.0;
-            double tb = 0.5 * (eta * eta * eta * battin_q(z) + 4.0 * lam * eta);
-            t[l] = w->battin[l] ? tb : t[l];
-        }
-    }
-}
+#define SWEEP_CAT2(a, b) a##b
+#define SWEEP_CAT(a, b) SWEEP_CAT2(a, b)
+#define SWEEP_NAME(n) SWEEP_CAT(n, SWEEP_SFX)
+#define SWEEP_T work
+#define SWEEP_N W
+#define SWEEP_SFX _full
+#include "lambert_batch_sweep.h"
+#undef SWEEP_T
+#undef SWEEP_N
+#undef SWEEP_SFX
+#define SWEEP_T cwork
+#define SWEEP_N CW
+#define SWEEP_SFX _few
+#include "lambert_batch_sweep.h"
+#undef SWEEP_T
+#undef SWEEP_N
+#undef SWEEP_SFX
 
 /* Initial guess for M = 0 (Izzo 2015, eq. 30; lambert.c):
  *   T >= T00: x0 = (T00/T)^(2/3) - 1
@@ -255,6 +226,46 @@ static inline __attribute__((always_inline)) void initial_guess(work *w)
         x0 = (x0 > -1.0) & (x0 < INFINITY) ? x0 : 3.0;
         w->x[l] = x0;
     }
+}
+
+/* Finish the (at most CW) active lanes of w in a CW-lane block, starting
+ * at sweep number it; returns the sweep number after the last, as the
+ * full loop would.  Filler lanes repeat the first active lane, inactive. */
+static inline __attribute__((always_inline)) int finish_few(work *w, int it)
+{
+    cwork cw, *c = &cw;
+    double tc[CW] __attribute__((aligned(64)));
+    int idx[CW], n = 0;
+    for (int l = 0; l < W; l++)
+        if (w->act[l] && n < CW) idx[n++] = l;
+    for (int k = n; k < CW; k++) idx[k] = idx[0];
+    for (int k = 0; k < CW; k++) {
+        int l = idx[k];
+        c->x[k] = w->x[l];
+        c->lo[k] = w->lo[l];
+        c->hi[k] = w->hi[l];
+        c->lam[k] = w->lam[l];
+        c->oml2[k] = w->oml2[l];
+        c->tstar[k] = w->tstar[l];
+        c->act[k] = k < n;
+        c->bad[k] = w->bad[l];
+        c->nit[k] = w->nit[l];
+    }
+    long cn = n;
+    for (; it <= MAX_ITER && cn; it++) {
+        tof_pass_few(c, tc);
+        cn = step_pass_few(c, tc);
+    }
+    for (int k = 0; k < n; k++) {
+        int l = idx[k];
+        w->x[l] = c->x[k];
+        w->lo[l] = c->lo[k];
+        w->hi[l] = c->hi[k];
+        w->act[l] = c->act[k];
+        w->bad[l] = c->bad[k];
+        w->nit[l] = c->nit[k];
+    }
+    return it;
 }
 
 SY_CLONES
@@ -372,53 +383,17 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
 
     /* ---- Householder iterations, lane-wide with masks ---- */
     int it = 0;
-    long nact = 1;
+    long nact = lanes_count(w->act);
     for (it = 1; it <= MAX_ITER && nact; it++) {
-        tof_pass(w, t);
-        LANES {
-            long a = w->act[l];
-            double x = w->x[l], lam = w->lam[l], oml2 = w->oml2[l];
-            double tt = t[l], ts = w->tstar[l];
-            double f = tt - ts;
-            long fin = fabs(tt) < INFINITY;
-            long done_f = fabs(f) <= TTOL * ts;
-            /* bracket: T decreasing, root above x when f > 0 */
-            double lo = f > 0.0 ? x : w->lo[l];
-            double hi = f > 0.0 ? w->hi[l] : x;
-            /* derivatives (Izzo; lambert.c lam_dtdx) */
-            double iy = w->iy[l], iy2 = iy * iy;
-            double iu = w->iu[l];
-            double l2 = lam * lam, l3 = l2 * lam;
-            double d1 = (3.0 * tt * x - 2.0 + 2.0 * l3 * x * iy) * iu;
-            double d2 = (3.0 * tt + 5.0 * x * d1 + 2.0 * oml2 * l3 * iy2 * iy) * iu;
-            double d3 = (7.0 * x * d2 + 8.0 * d1 -
-                         6.0 * oml2 * l2 * l3 * x * iy2 * iy2 * iy) * iu;
-            double d1s = d1 * d1;
-            double num = f * (d1s - 0.5 * f * d2);
-            double den = d1 * (d1s - f * d2) + d3 * f * f * (1.0 / 6.0);
-            double xn = x - num / den;
-            long xfin = fabs(xn) < INFINITY;
-            double ax = VMAX(1.0, fabs(x));
-            long inb = (xn > lo) & (xn < hi);
-            long done_x = xfin & (fabs(xn - x) <= XTOL_STEP * ax);
-            double xs = inb ? xn : x;
-            long hfin = hi < INFINITY;
-            double xbis = hfin ? 0.5 * (lo + hi) : 2.0 * fabs(lo) + 1.0;
-            double xnext = (xfin & inb) ? xn : xbis;
-            long done_b = hfin & (hi - lo <= XTOL * VMAX(1.0, fabs(xnext)));
-            /* priority as in lambert.c: non-finite T fails; |f| small
-             * keeps x; a small step takes it; else bisect if needed */
-            double xr = done_f ? x : (done_x ? xs : xnext);
-            long stop = (1 - fin) | done_f | done_x | done_b;
-            w->bad[l] = w->bad[l] | (a & (1 - fin));
-            w->x[l] = (a & fin) ? xr : x;
-            w->lo[l] = a ? lo : w->lo[l];
-            w->hi[l] = a ? hi : w->hi[l];
-            long still = a & (1 - stop);
-            w->nit[l] += a;
-            w->act[l] = still;
+        if (nact <= CW) {
+            /* a few lanes left: finish them in a block of CW lanes, at an
+             * eighth of the cost of a full sweep (most blocks end here
+             * after one step, with their slowest lanes to go) */
+            it = finish_few(w, it);
+            break;
         }
-        nact = lanes_count(w->act);
+        tof_pass_full(w, t);
+        nact = step_pass_full(w, t);
     }
     out->iterations = it - 1;
     /* lanes still active after MAX_ITER did not converge */
