@@ -69,6 +69,21 @@ static void arrival_from(sy_batch_in *in, int l, const sy_soa *a, size_t k)
     in->r2i[l] = a->ni[k];
 }
 
+/* W consecutive table entries from k0 into one side of the inputs. */
+static void copy_run(const sy_soa *t, size_t k0, double (*r)[W], double (*v)[W],
+                     double (*u)[W], double *n, double *sn, double *ni)
+{
+    const size_t bytes = W * sizeof(double);
+    for (int c = 0; c < 3; c++) {
+        memcpy(r[c], t->r[c] + k0, bytes);
+        memcpy(v[c], t->v[c] + k0, bytes);
+        memcpy(u[c], t->u[c] + k0, bytes);
+    }
+    memcpy(n, t->n + k0, bytes);
+    memcpy(sn, t->sn + k0, bytes);
+    memcpy(ni, t->ni + k0, bytes);
+}
+
 SY_CLONES
 int sy_block_gather(const sy_sweep *sw, size_t j, size_t i0, sy_block *b)
 {
@@ -104,6 +119,7 @@ int sy_block_gather(const sy_sweep *sw, size_t j, size_t i0, sy_block *b)
     /* two loops, each of one element width, so that both vectorise:
      * flight times (doubles), then statuses (bytes) */
     unsigned char tok[W];
+    long tokl[W];
 #pragma omp simd
     for (int l = 0; l < W; l++) {
         double jd_dep = x0 + (di0 + (double)(l < nl ? l : 0)) * dx;
@@ -111,17 +127,17 @@ int sy_block_gather(const sy_sweep *sw, size_t j, size_t i0, sy_block *b)
         b->tof_d[l] = t;
         in->tof_s[l] = t * SY_DAY_S;
         long ok = (t >= SY_MIN_FLIGHT_DAYS) & (l < nl);
-        b->tokl[l] = ok;
+        tokl[l] = ok;
     }
     /* counts by plain loops (see lanes_count in lambert_batch.c) */
     long ntime = 0;
-    for (int l = 0; l < W; l++) ntime += b->tokl[l];
+    for (int l = 0; l < W; l++) ntime += tokl[l];
     if (!ntime) {
         memset(b->st0, SY_CELL_NOTIME, sizeof b->st0);
         memset(in->live, 0, sizeof in->live);
         return 0;
     }
-    for (int l = 0; l < W; l++) tok[l] = (unsigned char)b->tokl[l];
+    for (int l = 0; l < W; l++) tok[l] = (unsigned char)tokl[l];
 #pragma omp simd
     for (int l = 0; l < W; l++) {
         unsigned char st = !tok[l] ? SY_CELL_NOTIME
@@ -136,14 +152,7 @@ int sy_block_gather(const sy_sweep *sw, size_t j, size_t i0, sy_block *b)
      * place when the last block was this column block and the kernel
      * left the inputs alone */
     if (b->dep_i0 != i0) {
-        for (int c = 0; c < 3; c++) {
-            memcpy(in->r1[c], dep->r[c] + i0, sizeof in->r1[c]);
-            memcpy(in->vb1[c], dep->v[c] + i0, sizeof in->vb1[c]);
-            memcpy(in->ir1[c], dep->u[c] + i0, sizeof in->ir1[c]);
-        }
-        memcpy(in->r1n, dep->n + i0, sizeof in->r1n);
-        memcpy(in->sr1, dep->sn + i0, sizeof in->sr1);
-        memcpy(in->r1i, dep->ni + i0, sizeof in->r1i);
+        copy_run(dep, i0, in->r1, in->vb1, in->ir1, in->r1n, in->sr1, in->r1i);
         b->dep_i0 = i0;
     }
     if (!sw->y_is_tof) {
@@ -166,14 +175,7 @@ int sy_block_gather(const sy_sweep *sw, size_t j, size_t i0, sy_block *b)
         }
     } else if (arr && sw->la == 1) {
         /* consecutive departures, consecutive arrivals (padded) */
-        for (int c = 0; c < 3; c++) {
-            memcpy(in->r2[c], arr->r[c] + k0, sizeof in->r2[c]);
-            memcpy(in->vb2[c], arr->v[c] + k0, sizeof in->vb2[c]);
-            memcpy(in->ir2[c], arr->u[c] + k0, sizeof in->ir2[c]);
-        }
-        memcpy(in->r2n, arr->n + k0, sizeof in->r2n);
-        memcpy(in->sr2, arr->sn + k0, sizeof in->sr2);
-        memcpy(in->r2i, arr->ni + k0, sizeof in->r2i);
+        copy_run(arr, k0, in->r2, in->vb2, in->ir2, in->r2n, in->sr2, in->r2i);
     } else if (arr) {
         /* strided; lanes past the row end repeat its last cell */
         for (int l = 0; l < W; l++)

@@ -40,7 +40,6 @@ typedef struct {
     sy_batch_out out;
     unsigned char st0[SY_BATCH_W]; /* status of lanes that are not solved */
     _Alignas(64) double tof_d[SY_BATCH_W]; /* flight time of each lane, days */
-    long tokl[SY_BATCH_W];          /* scratch: 1 where the flight time is valid */
     /* column block whose departure states the inputs hold, unmodified by
      * the kernel (dep_i0 = SIZE_MAX: none), so that the rows of a work
      * unit after the first copy only the arrival side */

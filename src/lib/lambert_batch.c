@@ -258,11 +258,10 @@ static inline __attribute__((always_inline)) int finish_few(work *w, int it)
         tof_pass_few(c, tc);
         cn = step_pass_few(c, tc);
     }
+    /* back what the later stages read (lo and hi are scratch from here) */
     for (int k = 0; k < n; k++) {
         int l = idx[k];
         w->x[l] = c->x[k];
-        w->lo[l] = c->lo[k];
-        w->hi[l] = c->hi[k];
         w->act[l] = c->act[k];
         w->bad[l] = c->bad[k];
         w->nit[l] = c->nit[k];
