@@ -115,6 +115,44 @@ START_TEST(test_tof_axis)
 END_TEST
 
 /* Same input, same bytes: fields and CSV with 1 and 2 threads. */
+/* sy_grid_recompute into a grid of the same layout gives the same bits as
+ * computing a new grid for the new spec (other dates, other options);
+ * a spec of another size or field set is refused and leaves the grid
+ * usable. */
+START_TEST(test_recompute)
+{
+    sy_grid_spec a = mars_spec(130, 90, 2), b = mars_spec(130, 90, 1);
+    b.x0_jd += 37.0;
+    b.y0 -= 11.0;
+    b.opts.park_alt_km = 300.0;
+    sy_grid *g, *fresh;
+    ck_assert_int_eq(sy_grid_compute(&a, NULL, NULL, &g, NULL), SY_OK);
+    ck_assert_int_eq(sy_grid_recompute(g, &b, NULL, NULL, NULL), SY_OK);
+    ck_assert_int_eq(sy_grid_compute(&b, NULL, NULL, &fresh, NULL), SY_OK);
+    size_t cells = g->nx * g->ny, ok = 0;
+    ck_assert_int_eq(memcmp(g->status, fresh->status, cells), 0);
+    ck_assert_int_eq(memcmp(g->type, fresh->type, cells), 0);
+    for (size_t k = 0; k < cells; k++) ok += g->status[k] == SY_CELL_OK;
+    ck_assert_int_gt(ok, cells / 2);
+    for (int f = 0; f < SY_NFIELDS; f++) {
+        ck_assert((g->field[f] == NULL) == (fresh->field[f] == NULL));
+        if (g->field[f])
+            ck_assert_int_eq(memcmp(g->field[f], fresh->field[f], cells * sizeof(float)), 0);
+    }
+    ck_assert(g->spec.x0_jd == b.x0_jd);
+    sy_grid_spec wrong = mars_spec(131, 90, 1);
+    sy_error err;
+    ck_assert_int_eq(sy_grid_recompute(g, &wrong, NULL, NULL, &err), SY_ERR_ARG);
+    ck_assert_ptr_nonnull(strstr(err.msg, "130 x 90"));
+    wrong = mars_spec(130, 90, 1);
+    wrong.fields = SY_FIELD_BIT(SY_F_C3);
+    ck_assert_int_eq(sy_grid_recompute(g, &wrong, NULL, NULL, &err), SY_ERR_ARG);
+    ck_assert(g->spec.x0_jd == b.x0_jd);
+    sy_grid_free(g);
+    sy_grid_free(fresh);
+}
+END_TEST
+
 START_TEST(test_thread_determinism)
 {
     sy_grid_spec s1 = mars_spec(150, 150, 1), s2 = mars_spec(150, 150, 2);
@@ -301,6 +339,7 @@ int main(void)
     tcase_add_test(tc, test_cells_match_point_queries);
     tcase_add_test(tc, test_tof_axis);
     tcase_add_test(tc, test_thread_determinism);
+    tcase_add_test(tc, test_recompute);
     tcase_add_test(tc, test_optimum_vs_dense_grid);
     tcase_add_test(tc, test_synodic_period);
     tcase_add_test(tc, test_masks_and_memory);
