@@ -138,12 +138,16 @@ int sy_block_gather(const sy_sweep *sw, size_t j, size_t i0, sy_block *b)
         return 0;
     }
     for (int l = 0; l < W; l++) tok[l] = (unsigned char)tokl[l];
+    /* byte masks and bitwise selects: written with ?: on bytes gcc kept
+     * this loop scalar, with a data-dependent branch per lane */
 #pragma omp simd
     for (int l = 0; l < W; l++) {
-        unsigned char st = !tok[l] ? SY_CELL_NOTIME
-                           : (dok[l] & aok[l]) ? SY_CELL_OK : SY_CELL_RANGE;
+        unsigned char mt = (unsigned char)-tok[l];
+        unsigned char mg = (unsigned char)-(dok[l] & aok[l]);
+        unsigned char st = (unsigned char)((mt & ((mg & SY_CELL_OK) | (~mg & SY_CELL_RANGE))) |
+                                           (~mt & SY_CELL_NOTIME));
         b->st0[l] = st;
-        in->live[l] = st == SY_CELL_OK;
+        in->live[l] = mt & mg & 1;
     }
     unsigned nlive = 0;
     for (int l = 0; l < W; l++) nlive += in->live[l];
@@ -218,7 +222,8 @@ void sy_block_seed(sy_block *b, size_t k)
         double e2 = 2.0 * p1[l] - p2[l];
         double e3 = 3.0 * (p1[l] - p2[l]) + p3[l];
         double e = order == 3 ? e3 : e2;
-        double s = (order >= 2 && e > -1.0 && e < 1e3) ? e : p1[l];
+        long use = (long)(order >= 2) & (e > -1.0) & (e < 1e3);
+        double s = use ? e : p1[l];
         xs[l] = order == 0 ? NAN : s;
     }
 }
@@ -263,11 +268,14 @@ void sy_block_scatter(sy_grid *g, size_t j, size_t i0, const sy_block *b, int so
     const sy_batch_in *in = &b->in;
     const sy_batch_out *bo = &b->out;
     if (solved) {
+        /* bitwise selects on bytes (see sy_block_gather) */
 #pragma omp simd
         for (size_t l = 0; l < n; l++) {
-            unsigned char s = in->live[l] ? bo->status[l] : b->st0[l];
+            unsigned char ml = (unsigned char)-(unsigned char)(in->live[l] != 0);
+            unsigned char s = (unsigned char)((ml & bo->status[l]) | (~ml & b->st0[l]));
+            unsigned char mo = (unsigned char)-(unsigned char)(s == SY_CELL_OK);
             st[l] = s;
-            ty[l] = s == SY_CELL_OK ? bo->type[l] : 0;
+            ty[l] = mo & bo->type[l];
         }
     } else {
         memcpy(st, b->st0, n);

@@ -51,9 +51,13 @@
  *
  * ISA: the kernel is compiled for x86-64-v4 (AVX-512), v3 (AVX2) and the
  * baseline with gcc's target_clones; the loader picks the variant once
- * (ifunc) for the CPU it runs on.  All variants do the same IEEE basic
- * operations (-std=c11 implies -ffp-contract=off, so no fused
- * multiply-add is introduced); they differ only in libmvec's variants.
+ * (ifunc) for the CPU it runs on.  This file is built with
+ * -ffp-contract=fast (configure's SIMD_KERNEL_CFLAGS): the v3 and v4
+ * variants fuse multiply-adds (about a tenth fewer instructions in a
+ * sweep bound by instruction throughput), the baseline has no FMA.  So
+ * the variants may differ from each other in the last bits, as they do
+ * in libmvec's variants; one process always runs one variant, so the
+ * bits never depend on the thread count.
  */
 #include "config.h"
 #include "synodic.h"
@@ -124,7 +128,7 @@ static inline __attribute__((always_inline)) long lanes_count_n(const long *m, i
 typedef struct {
     /* geometry (64-byte aligned arrays: whole-vector loads) */
     _Alignas(64) double it1[3][W], it2[3][W];
-    double lam[W], oml2[W], s[W], c[W], sq12[W], tstar[W];
+    double lam[W], oml2[W], gam[W], ic[W], sig[W], tstar[W];
     /* iteration */
     double x[W], lo[W], hi[W];
     double y[W], eta[W], u[W], sq[W], pa[W], pb[W], psi[W], tb[W];
@@ -133,6 +137,7 @@ typedef struct {
     /* masks as 64-bit integers, the width of a double lane, so that every
      * loop is single-width for the vectoriser */
     long act[W], bad[W], battin[W], hyp[W], st[W], ty[W], nit[W];
+    long live[W];            /* in->live as a lane mask; then: solved */
 } work;
 
 /* Lanes of the block that finishes the last few unconverged lanes of a
@@ -280,7 +285,9 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
     /* ---- dead lanes get a harmless problem (1 AU to 1.5 AU, 90 deg,
      * 200 days), so every vector lane computes finite numbers ---- */
     LANES {
-        w->act[l] = in->live[l] != 0;
+        long live = in->live[l] != 0;
+        w->act[l] = live;
+        w->live[l] = live;
     }
     /* (a block without dead lanes, the common case, is left untouched:
      * the caller may keep its inputs for the next block) */
@@ -326,16 +333,30 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         double h0 = u1 * v2 - u2 * v1, h1 = u2 * v0 - u0 * v2, h2 = u0 * v1 - u1 * v0;
         double hn = sqrt(h0 * h0 + h1 * h1 + h2 * h2);
         long degen = (long)!(r1n > 0.0) | (long)!(r2n > 0.0) | (long)!(hn >= PLANE_EPS);
-        double ihn = degen ? 1.0 : 1.0 / hn;
-        h0 *= ihn; h1 *= ihn; h2 *= ihn;
         double c0 = b0 - a0, c1 = b1 - a1, c2 = b2 - a2;
         double c = sqrt(c0 * c0 + c1 * c1 + c2 * c2);
         double s = 0.5 * (r1n + r2n + c);
-        /* one division for lambda, 1 - lambda^2 and T*: 1/s */
-        double is = 1.0 / s;
         double s0 = u0 + v0, s1 = u1 + v1, s2 = u2 + v2;
+        double upv = sqrt(s0 * s0 + s1 * s1 + s2 * s2); /* |ir1 + ir2| */
+        /* degenerate lanes divide by ones (their results are replaced
+         * below); sigma and rho share one division, 1/(|ir1 + ir2| c) */
+        double hd = degen ? 1.0 : hn, sd = degen ? 1.0 : s;
+        double pcd = degen ? 1.0 : upv * c;
+        double ihn = 1.0 / hd, is = 1.0 / sd, ipc = 1.0 / pcd;
+        double ic = ipc * upv;
+        h0 *= ihn; h1 *= ihn; h2 *= ihn;
         double sq12 = in->sr1[l] * in->sr2[l];
-        double lam = VMIN(1.0, sq12 * sqrt(s0 * s0 + s1 * s1 + s2 * s2) * (0.5 * is));
+        double lam = VMIN(1.0, sq12 * upv * (0.5 * is));
+        /* gamma = sqrt(mu s / 2) of the velocities (Izzo, Algorithm 1);
+         * T* = sqrt(2 mu / s^3) tof = 2 gamma tof / s^2, no second root */
+        double gamma = sqrt(0.5 * mu * sd);
+        /* sigma = sqrt(r1 r2) |ir1 - ir2| / c (lambert.c), with
+         * |ir1 - ir2| = 2 |ir1 x ir2| / |ir1 + ir2| for unit vectors
+         * (|a + b|^2 |a - b|^2 = (2 + 2 cos)(2 - 2 cos) = 4 sin^2):
+         * a product instead of a third square root, exact to rounding at
+         * both ends (near 0 deg |ir1 + ir2| -> 2, near 180 deg both
+         * factors are small and each is formed without cancellation) */
+        double sigma = VMIN(1.0, sq12 * (2.0 * hn) * ipc);
         /* h_z < 0: prograde is the long way round */
         double sg = h2 < 0.0 ? -1.0 : 1.0;
         lam *= sg;
@@ -346,12 +367,12 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         w->it2[0][l] = sg * (h1 * v2 - h2 * v1);
         w->it2[1][l] = sg * (h2 * v0 - h0 * v2);
         w->it2[2][l] = sg * (h0 * v1 - h1 * v0);
-        w->c[l] = c;
-        w->s[l] = s;
-        w->sq12[l] = sq12;
+        w->gam[l] = gamma;
+        w->ic[l] = ic;
+        w->sig[l] = sigma;
         w->lam[l] = degen ? 0.5 : lam;
         w->oml2[l] = degen ? 0.75 : c * is;
-        w->tstar[l] = degen ? 3.0 : sqrt(2.0 * mu * (is * is * is)) * in->tof_s[l];
+        w->tstar[l] = degen ? 3.0 : 2.0 * gamma * (is * is) * in->tof_s[l];
         w->st[l] = degen ? SY_CELL_DEGENERATE : SY_CELL_OK;
         w->act[l] = w->act[l] & (1 - degen);
         w->bad[l] = 0;
@@ -397,8 +418,6 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         nact = step_pass_full(w, t);
     }
     out->iterations = it - 1;
-    /* lanes still active after MAX_ITER did not converge */
-    LANES w->bad[l] = w->bad[l] | w->act[l];
 
     /* ---- velocities (Izzo, Algorithm 1; lambert.c) and the figures ---- */
     const unsigned fm = ctx->fields;
@@ -407,15 +426,12 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
     const double rad2deg = 180.0 / M_PI;
     LANES {
         double x = w->x[l], lam = w->lam[l];
-        double s = w->s[l], c = w->c[l], r1n = in->r1n[l], r2n = in->r2n[l];
-        /* divisions by c, r1 and r2 as products with reciprocals (one
-         * division here, the others tabulated per epoch) */
-        double ic = 1.0 / c, ir1n = in->r1i[l], ir2n = in->r2i[l];
-        double gamma = sqrt(0.5 * mu * s);
+        double r1n = in->r1n[l], r2n = in->r2n[l];
+        /* divisions by c, r1 and r2 as products with reciprocals (from
+         * the geometry's one division and the per-epoch tables) */
+        double ic = w->ic[l], ir1n = in->r1i[l], ir2n = in->r2i[l];
+        double gamma = w->gam[l], sigma = w->sig[l];
         double rho = (r1n - r2n) * ic;
-        double d0 = in->ir1[0][l] - in->ir2[0][l], d1 = in->ir1[1][l] - in->ir2[1][l],
-               d2 = in->ir1[2][l] - in->ir2[2][l];
-        double sigma = VMIN(1.0, w->sq12[l] * sqrt(d0 * d0 + d1 * d1 + d2 * d2) * ic);
         double y = sqrt(w->oml2[l] + lam * lam * x * x);
         double vr1 = gamma * ((lam * y - x) - rho * (lam * y + x)) * ir1n;
         double vr2 = -gamma * ((lam * y - x) + rho * (lam * y + x)) * ir2n;
@@ -434,13 +450,17 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         double c3 = e0 * e0 + e1 * e1 + e2 * e2;
         double c3a = g0 * g0 + g1 * g1 + g2 * g2;
         /* non-finite velocities (lambert.c) or C3 (transfer.c): no
-         * convergence; finite velocities give finite C3 barring overflow */
-        long fin = (fabs(p0) < INFINITY) & (fabs(p1) < INFINITY) & (fabs(p2) < INFINITY) &
-                   (fabs(q0) < INFINITY) & (fabs(q1) < INFINITY) & (fabs(q2) < INFINITY) &
-                   (c3 < INFINITY) & (c3a < INFINITY);
+         * convergence.  A non-finite velocity component makes its C3 Inf
+         * or NaN (the planets' velocities are finite), so the two C3
+         * tests cover all eight of lambert.c and transfer.c */
+        long fin = (c3 < INFINITY) & (c3a < INFINITY);
         long okst = w->st[l] == SY_CELL_OK;
-        long ok = okst & (1 - w->bad[l]) & fin;
+        /* lanes still active after MAX_ITER did not converge */
+        long ok = okst & (1 - (w->bad[l] | w->act[l])) & fin;
         w->st[l] = (okst & (1 - ok)) ? SY_CELL_NOCONV : w->st[l];
+        /* solved: live and converged (the fields of other lanes are NaN) */
+        long sol = w->live[l] & ok;
+        w->live[l] = sol;
         /* type from the sign of r1 x r2 (transfer.c) */
         double hz = in->r1[0][l] * in->r2[1][l] - in->r1[1][l] * in->r2[0][l];
         double cth = in->ir1[0][l] * in->ir2[0][l] + in->ir1[1][l] * in->ir2[1][l] +
@@ -452,10 +472,12 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         w->u[l] = c3;
         w->y[l] = c3a;
         w->eta[l] = sqrt(c3a);
-        /* cheap figures are stored for every lane (no masked stores) */
-        out->f[SY_F_C3][l] = c3;
-        out->f[SY_F_VINF_ARR][l] = w->eta[l];
-        out->f[SY_F_C3_ARR][l] = c3a;
+        /* cheap figures are stored for every lane (no masked stores),
+         * NaN where not solved */
+        out->f[SY_F_C3][l] = sol ? c3 : NAN;
+        out->f[SY_F_VINF_ARR][l] = sol ? w->eta[l] : NAN;
+        out->f[SY_F_C3_ARR][l] = sol ? c3a : NAN;
+        out->x[l] = sol ? x : NAN;
     }
     /* figures that cost a square root or a division: only when asked */
     if (fm & (1u << SY_F_VINF_DEP)) {
@@ -526,7 +548,7 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
             w->hi[l] = rp < rend ? rp : rend;
             w->tb[l] = rend;
             w->sq[l] = e;
-            w->c[l] = r0 * v0 + r1 * v1 + r2 * v2;
+            w->ic[l] = r0 * v0 + r1 * v1 + r2 * v2;
         }
         if (!(fm & (1u << SY_F_ANGLE))) {
             LANES {
@@ -536,7 +558,7 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         }
         LANES {
             double nu1 = acos(w->lo[l]);
-            nu1 = w->c[l] < 0.0 ? 2.0 * M_PI - nu1 : nu1;
+            nu1 = w->ic[l] < 0.0 ? 2.0 * M_PI - nu1 : nu1;
             double d = nu1 + w->psi[l] >= 2.0 * M_PI ? w->hi[l] : w->tb[l];
             d = w->sq[l] < 1e-12 ? w->tb[l] : d;
             out->f[SY_F_MIN_SUN][l] = d / SY_AU_KM;
@@ -573,13 +595,12 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
     /* lanes without a solution (dead, degenerate, not converged) carry
      * NaN in the fields asked for, so that the caller stores a block with
      * a plain conversion loop */
-    LANES w->bad[l] = (in->live[l] != 0) & (w->st[l] == SY_CELL_OK);
+    const unsigned done = (1u << SY_F_C3) | (1u << SY_F_VINF_ARR) | (1u << SY_F_C3_ARR);
     for (int f = 0; f < SY_NFIELDS; f++) {
-        if (!(fm & (1u << f))) continue;
+        if (!(fm & (1u << f)) || (done & (1u << f))) continue;
         double *v = out->f[f];
-        LANES v[l] = w->bad[l] ? v[l] : NAN;
+        LANES v[l] = w->live[l] ? v[l] : NAN;
     }
-    LANES out->x[l] = w->bad[l] ? w->x[l] : NAN;
 }
 
 int sy_batch_available(void)
