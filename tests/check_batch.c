@@ -253,6 +253,51 @@ START_TEST(test_lane_independence)
 }
 END_TEST
 
+/* A field's values do not depend on which other fields are asked for:
+ * every field asked alone, and in pairs with each other field, gives the
+ * bits of the all-fields solve (the kernel shares scratch arrays between
+ * the figures; a figure reading another's scratch would show here). */
+START_TEST(test_field_subsets)
+{
+    if (!sy_batch_available()) return;
+    sy_batch_ctx ctx;
+    full_ctx(&ctx);
+    static sy_batch_in in, keep;
+    static sy_batch_out ref, out;
+    for (int l = 0; l < SY_BATCH_W; l++) {
+        double r1[3], v1[3], r2[3], v2[3], tof;
+        random_problem(l % KIND_NKINDS, r1, v1, r2, v2, &tof);
+        for (int k = 0; k < 3; k++) {
+            in.r1[k][l] = r1[k]; in.vb1[k][l] = v1[k];
+            in.r2[k][l] = r2[k]; in.vb2[k][l] = v2[k];
+        }
+        in.tof_s[l] = tof;
+        in.live[l] = (unsigned char)(l % 11 != 3); /* some dead lanes */
+        in.xs[l] = NAN;
+    }
+    sy_batch_derive(&in);
+    keep = in;
+    sy_batch_solve(&ctx, &in, &ref);
+    int solved = 0;
+    for (int l = 0; l < SY_BATCH_W; l++) solved += ref.status[l] == SY_CELL_OK && keep.live[l];
+    ck_assert_int_gt(solved, SY_BATCH_W / 2);
+    for (int f = 0; f < SY_NFIELDS; f++) {
+        for (int g = -1; g < SY_NFIELDS; g++) {
+            sy_batch_ctx c = ctx;
+            c.fields = (1u << f) | (g >= 0 ? 1u << g : 0u);
+            in = keep;
+            sy_batch_solve(&c, &in, &out);
+            for (int l = 0; l < SY_BATCH_W; l++) {
+                ck_assert_int_eq(out.status[l], ref.status[l]);
+                ck_assert_msg(memcmp(&out.f[f][l], &ref.f[f][l], sizeof(double)) == 0,
+                              "field %d of lane %d changed when asked with field %d: %.17g vs %.17g",
+                              f, l, g, out.f[f][l], ref.f[f][l]);
+            }
+        }
+    }
+}
+END_TEST
+
 static sy_grid_spec mars_spec(size_t nx, size_t ny, int threads, int kernel)
 {
     sy_grid_spec s;
@@ -400,6 +445,7 @@ int main(void)
     tcase_set_timeout(tc, 300);
     tcase_add_test(tc, test_batch_vs_scalar_random);
     tcase_add_test(tc, test_lane_independence);
+    tcase_add_test(tc, test_field_subsets);
     tcase_add_test(tc, test_grid_vector_vs_scalar);
     tcase_add_test(tc, test_multirev_routed_to_scalar);
     tcase_add_test(tc, test_vector_thread_determinism);

@@ -138,6 +138,7 @@ typedef struct {
      * loop is single-width for the vectoriser */
     long act[W], bad[W], battin[W], hyp[W], st[W], ty[W], nit[W];
     long live[W];            /* in->live as a lane mask; then: solved */
+    double cth[W], hz[W];    /* cos of the transfer angle, (r1 x r2)_z */
 } work;
 
 /* Lanes of the block that finishes the last few unconverged lanes of a
@@ -467,8 +468,8 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
                      in->ir1[2][l] * in->ir2[2][l];
         cth = VMAX(-1.0, VMIN(1.0, cth));
         w->ty[l] = (hz >= 0.0) & (cth > -1.0) ? 1 : 2;
-        w->pa[l] = cth;
-        w->pb[l] = hz;
+        w->cth[l] = cth;
+        w->hz[l] = hz;
         w->u[l] = c3;
         w->y[l] = c3a;
         w->eta[l] = sqrt(c3a);
@@ -479,19 +480,20 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         out->f[SY_F_C3_ARR][l] = sol ? c3a : NAN;
         out->x[l] = sol ? x : NAN;
     }
-    /* figures that cost a square root or a division: only when asked */
+    /* figures that cost a square root or a division: only when asked.
+     * Each loop stores NaN where the lane is not solved (w->live). */
+    const long *sol = w->live;
     if (fm & (1u << SY_F_VINF_DEP)) {
-        LANES out->f[SY_F_VINF_DEP][l] = sqrt(w->u[l]);
+        LANES out->f[SY_F_VINF_DEP][l] = sol[l] ? sqrt(w->u[l]) : NAN;
     }
     if (fm & (1u << SY_F_TOF)) {
-        LANES out->f[SY_F_TOF][l] = in->tof_s[l] / SY_DAY_S;
+        LANES out->f[SY_F_TOF][l] = sol[l] ? in->tof_s[l] / SY_DAY_S : NAN;
     }
     if (fm & (1u << SY_F_ANGLE)) {
         LANES {
-            double th = acos(w->pa[l]);
-            th = w->pb[l] < 0.0 ? 2.0 * M_PI - th : th;
-            out->f[SY_F_ANGLE][l] = th * rad2deg;
-            w->psi[l] = th;
+            double th = acos(w->cth[l]);
+            th = w->hz[l] < 0.0 ? 2.0 * M_PI - th : th;
+            out->f[SY_F_ANGLE][l] = sol[l] ? th * rad2deg : NAN;
         }
     }
     /* asymptote declination / right ascension in EME2000 (transfer.c
@@ -512,14 +514,14 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
             w->hi[l] = n == 0.0 ? 0.0 : qy;
         }
         if (fm & (1u << fd)) {
-            LANES out->f[fd][l] = asin(w->pa[l]) * rad2deg;
+            LANES out->f[fd][l] = sol[l] ? asin(w->pa[l]) * rad2deg : NAN;
         }
         if (fm & (1u << fr)) {
             LANES {
             double ra = atan2(w->hi[l], w->tb[l]) * rad2deg;
             ra = ra < 0.0 ? ra + 360.0 : ra;
             ra = ra >= 360.0 ? ra - 360.0 : ra;
-            out->f[fr][l] = ra;
+            out->f[fr][l] = sol[l] ? ra : NAN;
             }
         }
     }
@@ -544,32 +546,29 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
             double rend = r1n < r2n ? r1n : r2n;
             double cn = (e0 * u0 + e1 * u1 + e2 * u2) / (e < 1e-12 ? 1.0 : e);
             cn = VMAX(-1.0, VMIN(1.0, cn));
-            w->lo[l] = cn;
-            w->hi[l] = rp < rend ? rp : rend;
-            w->tb[l] = rend;
-            w->sq[l] = e;
-            w->ic[l] = r0 * v0 + r1 * v1 + r2 * v2;
-        }
-        if (!(fm & (1u << SY_F_ANGLE))) {
-            LANES {
-                double th = acos(w->pa[l]);
-                w->psi[l] = w->pb[l] < 0.0 ? 2.0 * M_PI - th : th;
-            }
-        }
-        LANES {
-            double nu1 = acos(w->lo[l]);
-            nu1 = w->ic[l] < 0.0 ? 2.0 * M_PI - nu1 : nu1;
-            double d = nu1 + w->psi[l] >= 2.0 * M_PI ? w->hi[l] : w->tb[l];
-            d = w->sq[l] < 1e-12 ? w->tb[l] : d;
-            out->f[SY_F_MIN_SUN][l] = d / SY_AU_KM;
+            double rv = r0 * v0 + r1 * v1 + r2 * v2;
+            /* transfer.c: the arc passes periapsis when nu1 + theta >=
+             * 2 pi, nu1 the true anomaly at departure (acos(cn), 2 pi -
+             * that where r.v < 0) and theta the transfer angle (acos(cth),
+             * 2 pi - that where (r1 x r2)_z < 0).  That is theta >= 2 pi -
+             * nu1, compared here without inverse cosines through the
+             * pseudo-angle P = 1 - cos (angles in [0, pi]) or 3 + cos
+             * (angles in [pi, 2 pi]), which increases with the angle over
+             * [0, 2 pi] (common practice in computational geometry). */
+            double cth = w->cth[l];
+            double pth = w->hz[l] < 0.0 ? 3.0 + cth : 1.0 - cth;
+            double pal = rv < 0.0 ? 1.0 - cn : 3.0 + cn; /* of 2 pi - nu1 */
+            double d = pth >= pal ? (rp < rend ? rp : rend) : rend;
+            d = e < 1e-12 ? rend : d;
+            out->f[SY_F_MIN_SUN][l] = sol[l] ? d / SY_AU_KM : NAN;
         }
     }
-    /* delta-v and entry speed (transfer.c, common practice formulas) */
     for (int l = 0; l < W; l++) {
         out->status[l] = (unsigned char)w->st[l];
         out->type[l] = (unsigned char)w->ty[l];
         out->iters[l] = (unsigned char)w->nit[l];
     }
+    /* delta-v and entry speed (transfer.c, common practice formulas) */
     const unsigned dvbits = (1u << SY_F_DV_DEP) | (1u << SY_F_DV_CAP) |
                             (1u << SY_F_DV_TOTAL) | (1u << SY_F_V_ENTRY);
     if (fm & dvbits) {
@@ -586,20 +585,12 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
             double c3 = w->u[l], va = w->eta[l];
             double dd = sqrt(c3 + 2.0 * g1 / rpk) - vcirc;
             double dc = sqrt(va * va + 2.0 * g2 / rp) - vell;
-            out->f[SY_F_DV_DEP][l] = dd;
-            out->f[SY_F_DV_CAP][l] = dc;
-            out->f[SY_F_DV_TOTAL][l] = dd + dc;
-            out->f[SY_F_V_ENTRY][l] = sqrt(va * va + 2.0 * g2 / re);
+            long ok = sol[l];
+            out->f[SY_F_DV_DEP][l] = ok ? dd : NAN;
+            out->f[SY_F_DV_CAP][l] = ok ? dc : NAN;
+            out->f[SY_F_DV_TOTAL][l] = ok ? dd + dc : NAN;
+            out->f[SY_F_V_ENTRY][l] = ok ? sqrt(va * va + 2.0 * g2 / re) : NAN;
         }
-    }
-    /* lanes without a solution (dead, degenerate, not converged) carry
-     * NaN in the fields asked for, so that the caller stores a block with
-     * a plain conversion loop */
-    const unsigned done = (1u << SY_F_C3) | (1u << SY_F_VINF_ARR) | (1u << SY_F_C3_ARR);
-    for (int f = 0; f < SY_NFIELDS; f++) {
-        if (!(fm & (1u << f)) || (done & (1u << f))) continue;
-        double *v = out->f[f];
-        LANES v[l] = w->live[l] ? v[l] : NAN;
     }
 }
 
