@@ -126,7 +126,9 @@ static inline __attribute__((always_inline)) long lanes_count_n(const long *m, i
 #define VMAX(a, b) ((a) > (b) ? (a) : (b))
 
 typedef struct {
-    /* geometry (64-byte aligned arrays: whole-vector loads) */
+    /* geometry (64-byte aligned arrays: whole-vector loads); it1 and
+     * it2 are the tangent directions scaled by |ir1 x ir2|, sig the
+     * matching sigma (see the geometry loop) */
     _Alignas(64) double it1[3][W], it2[3][W];
     double lam[W], oml2[W], gam[W], ic[W], sig[W], tstar[W];
     /* iteration */
@@ -332,8 +334,11 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         double u0 = in->ir1[0][l], u1 = in->ir1[1][l], u2 = in->ir1[2][l];
         double v0 = in->ir2[0][l], v1 = in->ir2[1][l], v2 = in->ir2[2][l];
         double h0 = u1 * v2 - u2 * v1, h1 = u2 * v0 - u0 * v2, h2 = u0 * v1 - u1 * v0;
-        double hn = sqrt(h0 * h0 + h1 * h1 + h2 * h2);
-        long degen = (long)!(r1n > 0.0) | (long)!(r2n > 0.0) | (long)!(hn >= PLANE_EPS);
+        /* |ir1 x ir2| >= PLANE_EPS, compared squared: the norm itself is
+         * not needed (below) */
+        double hq = h0 * h0 + h1 * h1 + h2 * h2;
+        long degen = (long)!(r1n > 0.0) | (long)!(r2n > 0.0) |
+                     (long)!(hq >= PLANE_EPS * PLANE_EPS);
         double c0 = b0 - a0, c1 = b1 - a1, c2 = b2 - a2;
         double c = sqrt(c0 * c0 + c1 * c1 + c2 * c2);
         double s = 0.5 * (r1n + r2n + c);
@@ -341,27 +346,28 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         double upv = sqrt(s0 * s0 + s1 * s1 + s2 * s2); /* |ir1 + ir2| */
         /* degenerate lanes divide by ones (their results are replaced
          * below); sigma and rho share one division, 1/(|ir1 + ir2| c) */
-        double hd = degen ? 1.0 : hn, sd = degen ? 1.0 : s;
+        double sd = degen ? 1.0 : s;
         double pcd = degen ? 1.0 : upv * c;
-        double ihn = 1.0 / hd, is = 1.0 / sd, ipc = 1.0 / pcd;
+        double is = 1.0 / sd, ipc = 1.0 / pcd;
         double ic = ipc * upv;
-        h0 *= ihn; h1 *= ihn; h2 *= ihn;
         double sq12 = in->sr1[l] * in->sr2[l];
         double lam = VMIN(1.0, sq12 * upv * (0.5 * is));
         /* gamma = sqrt(mu s / 2) of the velocities (Izzo, Algorithm 1);
          * T* = sqrt(2 mu / s^3) tof = 2 gamma tof / s^2, no second root */
         double gamma = sqrt(0.5 * mu * sd);
-        /* sigma = sqrt(r1 r2) |ir1 - ir2| / c (lambert.c), with
-         * |ir1 - ir2| = 2 |ir1 x ir2| / |ir1 + ir2| for unit vectors
-         * (|a + b|^2 |a - b|^2 = (2 + 2 cos)(2 - 2 cos) = 4 sin^2):
-         * a product instead of a third square root, exact to rounding at
-         * both ends (near 0 deg |ir1 + ir2| -> 2, near 180 deg both
-         * factors are small and each is formed without cancellation) */
-        double sigma = VMIN(1.0, sq12 * (2.0 * hn) * ipc);
+        /* The tangential velocity is gamma sigma (y + lambda x) / r along
+         * the unit tangent it = sg (ih x ir), with sigma = sqrt(r1 r2)
+         * |ir1 - ir2| / c (lambert.c).  For unit vectors |ir1 - ir2| =
+         * 2 |h| / |ir1 + ir2|, h = ir1 x ir2 (|a + b|^2 |a - b|^2 =
+         * (2 + 2 cos)(2 - 2 cos) = 4 sin^2), and |h x ir| = |h|; so
+         * sigma it = sigma' t with t = sg (h x ir), not normalised, and
+         * sigma' = 2 sqrt(r1 r2) / (|ir1 + ir2| c): |h| cancels, which
+         * saves a root and a division.  Both factors are formed without
+         * cancellation near 0 deg (|ir1 + ir2| -> 2) and near 180 deg. */
+        double sigma = sq12 * 2.0 * ipc;
         /* h_z < 0: prograde is the long way round */
         double sg = h2 < 0.0 ? -1.0 : 1.0;
         lam *= sg;
-        /* it = sg (ih x ir) */
         w->it1[0][l] = sg * (h1 * u2 - h2 * u1);
         w->it1[1][l] = sg * (h2 * u0 - h0 * u2);
         w->it1[2][l] = sg * (h0 * u1 - h1 * u0);
