@@ -8,6 +8,8 @@
 #include "synodic/lvcap.h"
 #include "synodic/report.h"
 
+#include <gsl/gsl_statistics_float.h>
+
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -47,12 +49,6 @@ static void ridge_mask(const sy_grid *g, const float *z, const double *lv,
         }
 }
 
-static int cmp_float(const void *a, const void *b)
-{
-    float x = *(const float *)a, y = *(const float *)b;
-    return (x > y) - (x < y);
-}
-
 /* The study's limit on a field, NAN when it has none. */
 static double field_limit(const sy_study *st, sy_field f)
 {
@@ -82,15 +78,22 @@ size_t sy_figure_levels(const sy_grid *g, const sy_study *st,
         free(v);
         return 0;
     }
-    qsort(v, n, sizeof *v, cmp_float);
-    double zmin = v[0];
+    /* smallest, largest and the 40 % order statistic: a scan and GSL's
+     * selection (quickselect, linear time) instead of sorting the field,
+     * which took a tenth of a second on a 1000 x 1000 grid */
+    float vmin = v[0], vmax = v[0];
+    for (size_t k = 1; k < n; k++) {
+        vmin = v[k] < vmin ? v[k] : vmin;
+        vmax = v[k] > vmax ? v[k] : vmax;
+    }
+    double zmin = vmin;
     /* Porkchop fields rise steeply towards the 180-degree ridge and the
      * window edges; an analyst contours the basin, not the walls.  Take
      * the lower part of the distribution, or a bit beyond the limit. */
-    double zmax = v[(size_t)(0.40 * (double)(n - 1))];
+    double zmax = gsl_stats_float_select(v, 1, n, (size_t)(0.40 * (double)(n - 1)));
     double lim = field_limit(st, cf->field);
     if (isfinite(lim) && lim > zmin) zmax = 1.5 * lim - 0.5 * zmin;
-    if (zmax > v[n - 1]) zmax = v[n - 1];
+    if (zmax > vmax) zmax = vmax;
     free(v);
     if (!(zmax > zmin)) zmax = zmin + 1.0;
     /* Start from the first nice level above the minimum so the innermost
