@@ -202,6 +202,24 @@ START_TEST(test_batch_vs_scalar_random)
 }
 END_TEST
 
+/* A block of random problems, one kind after another across the lanes,
+ * unseeded; with_dead: every lane l with l % 11 == 3 dead. */
+static void random_block(sy_batch_in *in, int with_dead)
+{
+    for (int l = 0; l < SY_BATCH_W; l++) {
+        double r1[3], v1[3], r2[3], v2[3], tof;
+        random_problem(l % KIND_NKINDS, r1, v1, r2, v2, &tof);
+        for (int k = 0; k < 3; k++) {
+            in->r1[k][l] = r1[k]; in->vb1[k][l] = v1[k];
+            in->r2[k][l] = r2[k]; in->vb2[k][l] = v2[k];
+        }
+        in->tof_s[l] = tof;
+        in->live[l] = (unsigned char)(!with_dead || l % 11 != 3);
+        in->xs[l] = NAN;
+    }
+    sy_batch_derive(in);
+}
+
 /* A cell's bits do not depend on its lane or on its neighbours. */
 START_TEST(test_lane_independence)
 {
@@ -210,18 +228,7 @@ START_TEST(test_lane_independence)
     full_ctx(&ctx);
     static sy_batch_in in;
     static sy_batch_out ref, out;
-    for (int l = 0; l < SY_BATCH_W; l++) {
-        double r1[3], v1[3], r2[3], v2[3], tof;
-        random_problem(l % KIND_NKINDS, r1, v1, r2, v2, &tof);
-        for (int k = 0; k < 3; k++) {
-            in.r1[k][l] = r1[k]; in.vb1[k][l] = v1[k];
-            in.r2[k][l] = r2[k]; in.vb2[k][l] = v2[k];
-        }
-        in.tof_s[l] = tof;
-        in.live[l] = 1;
-        in.xs[l] = NAN;
-    }
-    sy_batch_derive(&in);
+    random_block(&in, 0);
     static sy_batch_in keep;
     keep = in;
     sy_batch_solve(&ctx, &in, &ref);
@@ -264,18 +271,7 @@ START_TEST(test_field_subsets)
     full_ctx(&ctx);
     static sy_batch_in in, keep;
     static sy_batch_out ref, out;
-    for (int l = 0; l < SY_BATCH_W; l++) {
-        double r1[3], v1[3], r2[3], v2[3], tof;
-        random_problem(l % KIND_NKINDS, r1, v1, r2, v2, &tof);
-        for (int k = 0; k < 3; k++) {
-            in.r1[k][l] = r1[k]; in.vb1[k][l] = v1[k];
-            in.r2[k][l] = r2[k]; in.vb2[k][l] = v2[k];
-        }
-        in.tof_s[l] = tof;
-        in.live[l] = (unsigned char)(l % 11 != 3); /* some dead lanes */
-        in.xs[l] = NAN;
-    }
-    sy_batch_derive(&in);
+    random_block(&in, 1); /* some dead lanes */
     keep = in;
     sy_batch_solve(&ctx, &in, &ref);
     int solved = 0;

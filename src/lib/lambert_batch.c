@@ -47,7 +47,12 @@
  *     the same to rounding, reached in fewer steps;
  *   - the norms and unit vectors of r1 and r2 come with the input
  *     (sy_batch_position, computed once per epoch by the grid) with the
- *     same operations the scalar path uses per cell.
+ *     same operations the scalar path uses per cell;
+ *   - T* comes from gamma (2 gamma tof / s^2), and sigma times the unit
+ *     tangent from the unnormalised tangent (the norm of ir1 x ir2
+ *     cancels; sigma is not clamped to 1), see the geometry loop;
+ *   - the minimum Sun distance decides whether the arc passes periapsis
+ *     by comparing pseudo-angles instead of two inverse cosines.
  *
  * ISA: the kernel is compiled for x86-64-v4 (AVX-512), v3 (AVX2) and the
  * baseline with gcc's target_clones; the loader picks the variant once
@@ -435,7 +440,7 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         double x = w->x[l], lam = w->lam[l];
         double r1n = in->r1n[l], r2n = in->r2n[l];
         /* divisions by c, r1 and r2 as products with reciprocals (from
-         * the geometry's one division and the per-epoch tables) */
+         * the geometry's shared division and the per-epoch tables) */
         double ic = w->ic[l], ir1n = in->r1i[l], ir2n = in->r2i[l];
         double gamma = w->gam[l], sigma = w->sig[l];
         double rho = (r1n - r2n) * ic;
