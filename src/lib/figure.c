@@ -78,14 +78,11 @@ size_t sy_figure_levels(const sy_grid *g, const sy_study *st,
         free(v);
         return 0;
     }
-    /* smallest, largest and the 40 % order statistic: a scan and GSL's
+    /* smallest, largest and the 40 % order statistic: GSL's scan and
      * selection (quickselect, linear time) instead of sorting the field,
      * which took a tenth of a second on a 1000 x 1000 grid */
-    float vmin = v[0], vmax = v[0];
-    for (size_t k = 1; k < n; k++) {
-        vmin = v[k] < vmin ? v[k] : vmin;
-        vmax = v[k] > vmax ? v[k] : vmax;
-    }
+    float vmin, vmax;
+    gsl_stats_float_minmax(&vmin, &vmax, v, 1, n);
     double zmin = vmin;
     /* Porkchop fields rise steeply towards the 180-degree ridge and the
      * window edges; an analyst contours the basin, not the walls.  Take

@@ -69,6 +69,20 @@ static void arrival_from(sy_batch_in *in, int l, const sy_soa *a, size_t k)
     in->r2i[l] = a->ni[k];
 }
 
+/* Byte-lane selects for the status loops: m is 0xff (take a) or 0 (take
+ * b).  Written with ?: on bytes, gcc kept those loops scalar with a
+ * data-dependent branch per lane; masks and bitwise selects vectorise. */
+static inline __attribute__((always_inline)) unsigned char mask_u8(int c)
+{
+    return (unsigned char)-(unsigned char)(c != 0);
+}
+static inline __attribute__((always_inline)) unsigned char sel_u8(unsigned char m,
+                                                                  unsigned char a,
+                                                                  unsigned char b)
+{
+    return (unsigned char)((m & a) | (~m & b));
+}
+
 /* W consecutive table entries from k0 into one side of the inputs. */
 static void copy_run(const sy_soa *t, size_t k0, double (*r)[W], double (*v)[W],
                      double (*u)[W], double *n, double *sn, double *ni)
@@ -138,15 +152,10 @@ int sy_block_gather(const sy_sweep *sw, size_t j, size_t i0, sy_block *b)
         return 0;
     }
     for (int l = 0; l < W; l++) tok[l] = (unsigned char)tokl[l];
-    /* byte masks and bitwise selects: written with ?: on bytes gcc kept
-     * this loop scalar, with a data-dependent branch per lane */
 #pragma omp simd
     for (int l = 0; l < W; l++) {
-        unsigned char mt = (unsigned char)-tok[l];
-        unsigned char mg = (unsigned char)-(dok[l] & aok[l]);
-        unsigned char st = (unsigned char)((mt & ((mg & SY_CELL_OK) | (~mg & SY_CELL_RANGE))) |
-                                           (~mt & SY_CELL_NOTIME));
-        b->st0[l] = st;
+        unsigned char mt = mask_u8(tok[l]), mg = mask_u8(dok[l] & aok[l]);
+        b->st0[l] = sel_u8(mt, sel_u8(mg, SY_CELL_OK, SY_CELL_RANGE), SY_CELL_NOTIME);
         in->live[l] = mt & mg & 1;
     }
     unsigned nlive = 0;
@@ -268,14 +277,11 @@ void sy_block_scatter(sy_grid *g, size_t j, size_t i0, const sy_block *b, int so
     const sy_batch_in *in = &b->in;
     const sy_batch_out *bo = &b->out;
     if (solved) {
-        /* bitwise selects on bytes (see sy_block_gather) */
 #pragma omp simd
         for (size_t l = 0; l < n; l++) {
-            unsigned char ml = (unsigned char)-(unsigned char)(in->live[l] != 0);
-            unsigned char s = (unsigned char)((ml & bo->status[l]) | (~ml & b->st0[l]));
-            unsigned char mo = (unsigned char)-(unsigned char)(s == SY_CELL_OK);
+            unsigned char s = sel_u8(mask_u8(in->live[l]), bo->status[l], b->st0[l]);
             st[l] = s;
-            ty[l] = mo & bo->type[l];
+            ty[l] = mask_u8(s == SY_CELL_OK) & bo->type[l];
         }
     } else {
         memcpy(st, b->st0, n);

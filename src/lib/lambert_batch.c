@@ -482,7 +482,6 @@ static void solve_block(const sy_batch_ctx *ctx, sy_batch_in *in,
         w->cth[l] = cth;
         w->hz[l] = hz;
         w->u[l] = c3;
-        w->y[l] = c3a;
         w->eta[l] = sqrt(c3a);
         /* cheap figures are stored for every lane (no masked stores),
          * NaN where not solved */
