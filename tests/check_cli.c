@@ -240,7 +240,32 @@ START_TEST(test_chart_outputs)
     ck_assert_double_le(fabs(json_number_value(json_object_get(o0, "dla_deg"))), 28.5);
     ck_assert_double_le(json_number_value(json_object_get(o0, "vinf_arr_km_s")), 4.5);
     ck_assert_ptr_nonnull(json_object_get(json_object_get(j, "model"), "caution"));
+    /* at_grid_edge names the first departure exactly when an optimum
+     * departs within 0.01 day of the grid's first departure; the printed
+     * summary says so for the same optima */
+    double dep0 = json_number_value(json_object_get(json_object_get(j, "grid"), "departure_start_jd"));
+    int on_edge = 0;
+    for (size_t k = 0; k < json_array_size(opt); k++) {
+        json_t *ok = json_array_get(opt, k), *ed = json_object_get(ok, "at_grid_edge");
+        if (!json_is_true(json_object_get(ok, "found"))) continue;
+        ck_assert_msg(json_is_array(ed), "optimum %zu: no at_grid_edge array", k);
+        int first = 0;
+        for (size_t q = 0; q < json_array_size(ed); q++)
+            first |= strcmp(json_string_value(json_array_get(ed, q)), "departure_first") == 0;
+        double d = json_number_value(json_object_get(ok, "departure_jd"));
+        ck_assert_msg(first == (fabs(d - dep0) <= 0.01), "optimum %zu departs %.3f, grid %.3f", k, d, dep0);
+        on_edge += first;
+    }
+    /* the demo's minimum arrival v-infinity is held by its first departure */
+    ck_assert_int_ge(on_edge, 1);
+    ck_assert_uint_eq(json_array_size(json_object_get(o0, "at_grid_edge")), 0);
     json_decref(j);
+    snprintf(args, sizeof args, "chart examples/tern-mars-2033.ini -o %s/t3 --threads 1 "
+             "--set departure.step_days=3 --set arrival.step_days=3 --format json", dir);
+    r = tu_run_synodic(args);
+    ck_assert_msg(r.status == 0, "exit %d: %s", r.status, r.err);
+    ck_assert_ptr_nonnull(strstr(r.out, "at the grid's edge (first departure)"));
+    tu_run_free(&r);
     snprintf(args, sizeof args, "rm -rf '%s'", dir);
     ck_assert_int_eq(system(args), 0);
 }

@@ -234,6 +234,62 @@ START_TEST(test_optimum_vs_dense_grid)
 }
 END_TEST
 
+/* A minimum held by the grid window is flagged, an interior one is not.
+ * The reference is the interior minimum of a wider window (checked
+ * against a dense grid in test_optimum_vs_dense_grid): a window that
+ * starts 15 days after its departure, or ends 15 days before its
+ * arrival, cannot contain it, so its best point must lie on that side
+ * and cost more (a minimum over a subset is never lower). */
+START_TEST(test_optimum_at_edge)
+{
+    sy_grid_spec s = mars_spec(120, 300, 0);
+    sy_grid *g;
+    ck_assert_int_eq(sy_grid_compute(&s, NULL, NULL, &g, NULL), SY_OK);
+    sy_study st;
+    open_study(&st);
+    sy_optimum o;
+    ck_assert_int_eq(sy_grid_optimum(g, &st, SY_F_C3, &o), SY_OK);
+    ck_assert(o.found);
+    ck_assert_uint_eq(o.edges, 0);
+    char txt[96];
+    ck_assert_str_eq(sy_optimum_edge_text(&o, 0, txt, sizeof txt), "");
+
+    sy_grid_spec late = s;
+    late.x0_jd = floor(o.jd_dep) + 15.0;
+    late.nx = 60;
+    sy_grid *gl;
+    ck_assert_int_eq(sy_grid_compute(&late, NULL, NULL, &gl, NULL), SY_OK);
+    sy_optimum ol;
+    ck_assert_int_eq(sy_grid_optimum(gl, &st, SY_F_C3, &ol), SY_OK);
+    ck_assert(ol.found);
+    ck_assert_uint_eq(ol.edges, SY_EDGE_DEP_FIRST);
+    ck_assert_double_le(ol.jd_dep - late.x0_jd, SY_EDGE_TOL_DAYS);
+    ck_assert_double_gt(ol.value, o.value);
+    ck_assert_str_eq(sy_optimum_edge_text(&ol, 0, txt, sizeof txt), "first departure");
+
+    /* and the arrival side too: the window's last arrival 15 days short */
+    sy_grid_spec both = late;
+    both.ny = (size_t)(floor(o.jd_arr) - 15.0 - both.y0) + 1;
+    sy_grid *gb;
+    ck_assert_int_eq(sy_grid_compute(&both, NULL, NULL, &gb, NULL), SY_OK);
+    sy_optimum ob;
+    ck_assert_int_eq(sy_grid_optimum(gb, &st, SY_F_C3, &ob), SY_OK);
+    ck_assert(ob.found);
+    ck_assert(ob.edges & SY_EDGE_Y_LAST);
+    ck_assert(!(ob.edges & (SY_EDGE_DEP_LAST | SY_EDGE_Y_FIRST)));
+    ck_assert_double_ge(ob.value, ol.value);
+    sy_optimum_edge_text(&ob, 0, txt, sizeof txt);
+    ck_assert_msg(strstr(txt, "last arrival") != NULL, "edge text '%s'", txt);
+    sy_optimum_edge_text(&ob, 1, txt, sizeof txt);
+    ck_assert_msg(strstr(txt, "longest flight") != NULL, "edge text '%s'", txt);
+    /* a buffer too short for the text still ends in a terminator */
+    ck_assert_uint_lt(strlen(sy_optimum_edge_text(&ob, 0, txt, 8)), 8);
+    sy_grid_free(gb);
+    sy_grid_free(gl);
+    sy_grid_free(g);
+}
+END_TEST
+
 /* Earth-Mars opportunities recur with the synodic period: the minimum-C3
  * departures found by scanning 2026-2045 are spaced by about 780 days
  * (common practice: 1 / (1/365.256 - 1/686.98) = 779.9 d from the mean
@@ -341,6 +397,7 @@ int main(void)
     tcase_add_test(tc, test_thread_determinism);
     tcase_add_test(tc, test_recompute);
     tcase_add_test(tc, test_optimum_vs_dense_grid);
+    tcase_add_test(tc, test_optimum_at_edge);
     tcase_add_test(tc, test_synodic_period);
     tcase_add_test(tc, test_masks_and_memory);
     tcase_add_test(tc, test_cancel);

@@ -36,7 +36,7 @@ void usage_chart(FILE *out)
 
 
 
-static void print_optimum(const sy_optimum *o)
+static void print_optimum(const sy_optimum *o, int y_is_tof)
 {
     char name[32];
     snprintf(name, sizeof name, "%s%s", sy_field_name(o->field),
@@ -57,6 +57,9 @@ static void print_optimum(const sy_optimum *o)
            t->type == 1 ? "I" : "II");
     if (isfinite(t->dv_total_km_s)) printf(", total dv %.3f km/s", t->dv_total_km_s);
     printf("\n");
+    char edge[96];
+    if (*sy_optimum_edge_text(o, y_is_tof, edge, sizeof edge))
+        printf("      at the grid's edge (%s): the minimum may lie outside it; widen the study's dates there\n", edge);
 }
 
 int cmd_chart(int argc, char **argv)
@@ -153,7 +156,7 @@ int cmd_chart(int argc, char **argv)
     }
     if (!quiet) {
         printf("%s\n  %s -> %s, %zu x %zu cells\n", st->title, from->name, to->name, g->nx, g->ny);
-        for (size_t k = 0; k < nopt; k++) print_optimum(&opt[k]);
+        for (size_t k = 0; k < nopt; k++) print_optimum(&opt[k], g->spec.y_is_tof);
         for (int k = 0; k < nw; k++) printf("  wrote %s\n", written[k]);
         printf("  %s\n", SY_CAUTION);
         if (fflush(stdout) != 0) rc = cli_error(CLI_EXIT_IO, "cannot write to standard output");

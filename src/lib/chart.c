@@ -2010,9 +2010,11 @@ static sy_status render(syc_ctx *x, cairo_t *cr, double px_per_pt, int draw, sy_
         draw_lines(x);
         draw_labels(x);
         draw_paths(x);
+        /* the frame under the optima: a minimum on the grid's edge keeps
+         * its whole symbol instead of a frame line through it */
+        draw_frame_and_ticks(x);
         draw_marker_layer(x);
         draw_path_labels(x);
-        draw_frame_and_ticks(x);
         draw_colour_bar(x);
         syc_draw_legend(x);
         draw_titles_footer(x);

@@ -224,7 +224,7 @@ struct sy_figure {
     sy_chart_region regions[4];
     char reglabel[4][96];
     sy_chart_marker marks[SY_FIGURE_MAX_MARKS];
-    char mlabel[SY_FIGURE_MAX_MARKS][160];
+    char mlabel[SY_FIGURE_MAX_MARKS][200];
     char title[256], subtitle[256];
     char f1[256], f3[512], f4[700], f5[512];
     const char *footer[5];
@@ -472,11 +472,14 @@ static sy_status figure_fill(sy_figure *f, const sy_grid *g, const sy_study *st,
         if (st->width_in < 5.0)
             /* a report column has no room for dates: value and type only
              * (the dates are in the JSON summary and the printed table) */
-            snprintf(f->mlabel[nm], sizeof f->mlabel[nm], "%s %s%s", short_name(opt[k].field), v,
-                     opt[k].type == 1 ? " I" : opt[k].type == 2 ? " II" : "");
+            snprintf(f->mlabel[nm], sizeof f->mlabel[nm], "%s %s%s%s", short_name(opt[k].field), v,
+                     opt[k].type == 1 ? " I" : opt[k].type == 2 ? " II" : "",
+                     opt[k].edges ? " (edge)" : "");
         else
-            snprintf(f->mlabel[nm], sizeof f->mlabel[nm], "min %s%s %s %s\n%s → %s",
-                     short_name(opt[k].field), ty, v, field_unit(opt[k].field), d1, d2);
+            snprintf(f->mlabel[nm], sizeof f->mlabel[nm], "min %s%s %s %s\n%s → %s%s",
+                     short_name(opt[k].field), ty, v, field_unit(opt[k].field), d1, d2,
+                     /* held by the window, not found: say so where it is read */
+                     opt[k].edges ? "\nat the grid's edge" : "");
         f->marks[nm].x_jd = opt[k].jd_dep;
         f->marks[nm].y = g->spec.y_is_tof ? opt[k].jd_arr - opt[k].jd_dep : opt[k].jd_arr;
         f->marks[nm].symbol = opt[k].field == SY_F_C3 ? SY_CHART_MARK_CIRCLE

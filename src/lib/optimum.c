@@ -15,6 +15,7 @@
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_multimin.h>
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 typedef struct {
@@ -170,5 +171,31 @@ sy_status sy_grid_optimum_of_type(const sy_grid *g, const sy_study *st,
     opt->transfer = t;
     opt->value = sy_transfer_field(&t, field);
     opt->iterations = it;
+    /* the barrier holds the simplex inside the window; a minimum pressed
+     * against a side of it is the window's, not the field's */
+    if (dep - c.dep_lo <= SY_EDGE_TOL_DAYS) opt->edges |= SY_EDGE_DEP_FIRST;
+    if (c.dep_hi - dep <= SY_EDGE_TOL_DAYS) opt->edges |= SY_EDGE_DEP_LAST;
+    double y = s->y_is_tof ? arr - dep : arr;
+    if (y - c.y_lo <= SY_EDGE_TOL_DAYS) opt->edges |= SY_EDGE_Y_FIRST;
+    if (c.y_hi - y <= SY_EDGE_TOL_DAYS) opt->edges |= SY_EDGE_Y_LAST;
     return SY_OK;
+}
+
+const char *sy_optimum_edge_text(const sy_optimum *o, int y_is_tof, char *buf, size_t n)
+{
+    static const unsigned bit[4] = {SY_EDGE_DEP_FIRST, SY_EDGE_DEP_LAST,
+                                    SY_EDGE_Y_FIRST, SY_EDGE_Y_LAST};
+    const char *name[4] = {"first departure", "last departure",
+                           y_is_tof ? "shortest flight" : "first arrival",
+                           y_is_tof ? "longest flight" : "last arrival"};
+    if (!n) return buf;
+    buf[0] = '\0';
+    size_t len = 0;
+    for (int k = 0; k < 4; k++) {
+        if (!o->found || !(o->edges & bit[k])) continue;
+        int w = snprintf(buf + len, n - len, "%s%s", len ? " and " : "", name[k]);
+        if (w < 0 || (size_t)w >= n - len) break;
+        len += (size_t)w;
+    }
+    return buf;
 }

@@ -212,7 +212,21 @@ sy_status sy_report_json(const sy_grid *g, const sy_study *st,
         json_object_set_new(o, "restricted_to_type",
                             opt[k].type ? json_string(opt[k].type == 1 ? "I" : "II") : json_null());
         json_object_set_new(o, "found", json_boolean(opt[k].found));
-        if (opt[k].found) json_object_set_new(o, "value", json_real(opt[k].value));
+        if (opt[k].found) {
+            json_object_set_new(o, "value", json_real(opt[k].value));
+            /* the sides of the grid window the optimum is pressed against
+             * (sy_optimum.edges): its minimum may lie beyond them */
+            static const struct { unsigned bit; const char *arr, *tof; } sides[4] = {
+                {SY_EDGE_DEP_FIRST, "departure_first", "departure_first"},
+                {SY_EDGE_DEP_LAST, "departure_last", "departure_last"},
+                {SY_EDGE_Y_FIRST, "arrival_first", "tof_first"},
+                {SY_EDGE_Y_LAST, "arrival_last", "tof_last"}};
+            json_t *ed = json_array();
+            for (int q = 0; q < 4; q++)
+                if (opt[k].edges & sides[q].bit)
+                    json_array_append_new(ed, json_string(g->spec.y_is_tof ? sides[q].tof : sides[q].arr));
+            json_object_set_new(o, "at_grid_edge", ed);
+        }
         if (opt[k].found && cap) {
             /* null when the C3 lies outside the table (no extrapolation) */
             double m;

@@ -119,7 +119,22 @@ typedef struct {
     double value;           /* the field's value there                   */
     sy_transfer transfer;   /* every figure at the optimum               */
     int iterations;         /* minimiser iterations                      */
+    unsigned edges;         /* SY_EDGE_* bits: where it touches the grid */
 } sy_optimum;
+
+/* An optimum within SY_EDGE_TOL_DAYS of the grid window's first or last
+ * departure, or first or last arrival (flight time on a flight-time
+ * axis), has been held back by the window, not found: the field may go
+ * on falling beyond it.  Widen the study's range on that side to find
+ * the minimum. */
+#define SY_EDGE_DEP_FIRST 1u
+#define SY_EDGE_DEP_LAST 2u
+#define SY_EDGE_Y_FIRST 4u
+#define SY_EDGE_Y_LAST 8u
+#define SY_EDGE_TOL_DAYS 0.01
+/* "first departure", "last arrival and first departure", ... of the
+ * bits in o->edges (flight time on a flight-time axis); "" for none. */
+const char *sy_optimum_edge_text(const sy_optimum *o, int y_is_tof, char *buf, size_t n);
 
 /* Minimum of `field` over the feasible cells, refined with GSL's
  * Nelder-Mead simplex (gsl_multimin_fminimizer_nmsimplex2) inside the
