@@ -239,6 +239,134 @@ START_TEST(test_minimax_respects_other_limits)
 }
 END_TEST
 
+/* One transfer type for the whole period, closed form on the drift field
+ * with Type II wherever the arrival lies 3 or more nodes past the drift
+ * line (dj = j - JC - i >= 3) and Type I elsewhere.  Type II only: each
+ * day's least C3 is at dj = 3, A + P (i-IC)^2 + 9 Q, so the best 21-day
+ * window is centred on IC with A + P 10^2 + 9 Q = 34.5.  Type I only: dj
+ * = 0 is allowed, the unrestricted answer 30 again.  Either: 30. */
+START_TEST(test_minimax_one_type_closed_form)
+{
+    sy_grid *g = make_grid(81, 100, drift);
+    for (size_t j = 0; j < 100; j++)
+        for (size_t i = 0; i < 81; i++)
+            g->type[j * 81 + i] = (long)j - JC - (long)i >= 3 ? 2 : 1;
+    sy_study st;
+    no_limits(&st);
+    sy_error err;
+    const size_t h = 10, L = 2 * h + 1;
+    sy_period p;
+    st.period_type = 2;
+    ck_assert_int_eq(sy_period_minimax(g, &st, SY_PERIOD_FREE, L, &p, &err), SY_OK);
+    ck_assert_double_eq(p.c3_max_km2_s2, A + P * h * h + 9 * Q);
+    ck_assert_uint_eq(p.days[0].i, IC - h);
+    for (size_t d = 0; d < L; d++) {
+        ck_assert_int_eq(p.days[d].type, 2);
+        ck_assert_uint_eq(p.days[d].j, JC + p.days[d].i + 3);
+    }
+    sy_period_free(&p);
+    st.period_type = 1;
+    ck_assert_int_eq(sy_period_minimax(g, &st, SY_PERIOD_FREE, L, &p, &err), SY_OK);
+    ck_assert_double_eq(p.c3_max_km2_s2, A + P * h * h);
+    for (size_t d = 0; d < L; d++) ck_assert_int_eq(p.days[d].type, 1);
+    sy_period_free(&p);
+    st.period_type = 0;
+    ck_assert_int_eq(sy_period_minimax(g, &st, SY_PERIOD_FREE, L, &p, &err), SY_OK);
+    ck_assert_double_eq(p.c3_max_km2_s2, A + P * h * h);
+    sy_period_free(&p);
+    /* no Type II cell at all: no period, and the message says which type */
+    for (size_t k = 0; k < 81 * 100; k++) g->type[k] = 1;
+    st.period_type = 2;
+    ck_assert_int_eq(sy_period_minimax(g, &st, SY_PERIOD_FIXED, L, &p, &err), SY_ERR_NOSOL);
+    ck_assert_ptr_nonnull(strstr(err.msg, "Type II"));
+    ck_assert_int_eq(sy_period_longest(g, &st, SY_PERIOD_FREE, &p, &err), SY_ERR_ARG); /* no C3 limit */
+    st.c3_max_km2_s2 = 1e9;
+    ck_assert_int_eq(sy_period_longest(g, &st, SY_PERIOD_FREE, &p, &err), SY_OK);
+    ck_assert_uint_eq(p.ndays, 0);
+    sy_period_free(&p);
+    free_grid(g);
+}
+END_TEST
+
+/* Exhaustive enumeration with random transfer types: for each type
+ * restriction, both strategies, both questions, against brute force over
+ * the cells of that type (exact mathematics on a finite set). */
+START_TEST(test_one_type_bruteforce)
+{
+    lcg_state = 4242;
+    const size_t nx = 31, ny = 19;
+    sy_grid *g = make_grid(nx, ny, noise);
+    for (size_t k = 0; k < nx * ny; k++) {
+        lcg_state = lcg_state * 1664525u + 1013904223u;
+        g->type[k] = (lcg_state >> 20) % 3 ? 2 : 1;   /* about 2/3 Type II */
+    }
+    const float *C = g->field[SY_F_C3];
+    sy_study st;
+    no_limits(&st);
+    st.c3_max_km2_s2 = 22.0;
+    sy_error err;
+    for (int ty = 0; ty <= 2; ty++) {
+        st.period_type = ty;
+#define OKC(k, lim) ((ty == 0 || g->type[k] == ty) && (double)C[k] <= (lim))
+        /* longest: free = longest run of days with any cell of the type
+         * within the limit; fixed = longest run along one arrival */
+        size_t lf = 0, lx = 0;
+        for (size_t j = 0; j <= ny; j++) {
+            size_t run = 0;
+            for (size_t i = 0; i < nx; i++) {
+                int ok = 0;
+                if (j == ny) { for (size_t q = 0; q < ny; q++) ok |= OKC(q * nx + i, 22.0); }
+                else ok = OKC(j * nx + i, 22.0);
+                run = ok ? run + 1 : 0;
+                if (j == ny && run > lf) lf = run;
+                if (j < ny && run > lx) lx = run;
+            }
+        }
+        sy_period pf, px;
+        ck_assert_int_eq(sy_period_longest(g, &st, SY_PERIOD_FREE, &pf, &err), SY_OK);
+        ck_assert_int_eq(sy_period_longest(g, &st, SY_PERIOD_FIXED, &px, &err), SY_OK);
+        ck_assert_msg(pf.ndays == lf, "type %d free longest %zu vs %zu", ty, pf.ndays, lf);
+        ck_assert_msg(px.ndays == lx, "type %d fixed longest %zu vs %zu", ty, px.ndays, lx);
+        for (size_t d = 0; d < pf.ndays; d++) ck_assert(ty == 0 || pf.days[d].type == ty);
+        for (size_t d = 0; d < px.ndays; d++) ck_assert(ty == 0 || px.days[d].type == ty);
+        sy_period_free(&pf);
+        sy_period_free(&px);
+        /* minimax of every length */
+        for (size_t L = 1; L <= 12; L++) {
+            double bf_free = INFINITY, bf_fixed = INFINITY;
+            for (size_t s = 0; s + L <= nx; s++) {
+                double wfree = -INFINITY;
+                for (size_t i = s; i < s + L; i++) {
+                    double m = INFINITY;
+                    for (size_t j = 0; j < ny; j++)
+                        if (OKC(j * nx + i, INFINITY)) m = fmin(m, C[j * nx + i]);
+                    wfree = fmax(wfree, m);
+                }
+                bf_free = fmin(bf_free, wfree);
+                for (size_t j = 0; j < ny; j++) {
+                    double w = -INFINITY;
+                    for (size_t i = s; i < s + L; i++)
+                        w = fmax(w, OKC(j * nx + i, INFINITY) ? (double)C[j * nx + i] : INFINITY);
+                    bf_fixed = fmin(bf_fixed, w);
+                }
+            }
+#undef OKC
+            sy_status a = sy_period_minimax(g, &st, SY_PERIOD_FREE, L, &pf, &err);
+            sy_status b = sy_period_minimax(g, &st, SY_PERIOD_FIXED, L, &px, &err);
+            ck_assert_int_eq(a, isfinite(bf_free) ? SY_OK : SY_ERR_NOSOL);
+            ck_assert_int_eq(b, isfinite(bf_fixed) ? SY_OK : SY_ERR_NOSOL);
+            if (a == SY_OK) ck_assert_msg(pf.c3_max_km2_s2 == bf_free, "type %d L %zu free", ty, L);
+            if (b == SY_OK) ck_assert_msg(px.c3_max_km2_s2 == bf_fixed, "type %d L %zu fixed", ty, L);
+            for (size_t d = 0; d < pf.ndays; d++) ck_assert(ty == 0 || pf.days[d].type == ty);
+            for (size_t d = 0; d < px.ndays; d++) ck_assert(ty == 0 || px.days[d].type == ty);
+            sy_period_free(&pf);
+            sy_period_free(&px);
+        }
+    }
+    free_grid(g);
+}
+END_TEST
+
 /* Longest period, exact mathematics.  Separable field, C3 <= 30: days
  * with P (i-IC)^2 <= 25, i.e. |i - IC| <= 10: 21 days for both
  * strategies, the fixed one at arrival JC + IC.  Drift field: free is 21
@@ -418,6 +546,25 @@ START_TEST(test_cli_mars_example)
     json_decref(root);
     tu_run_free(&r);
 
+    /* --type II: every day of every period Type II, said in the JSON */
+    snprintf(args, sizeof args, "period examples/tern-mars-2033.ini -o %s/t2 --type II --quiet", dir);
+    r = tu_run_synodic(args);
+    ck_assert_msg(r.status == 0, "%s", r.err);
+    snprintf(path, sizeof path, "%s/t2/tern-mars-2033-period.json", dir);
+    root = json_load_file(path, 0, &je);
+    ck_assert_ptr_nonnull(root);
+    ps = json_object_get(root, "periods");
+    ck_assert_uint_eq(json_array_size(ps), 4);
+    for (size_t k = 0; k < json_array_size(ps); k++) {
+        json_t *p = json_array_get(ps, k), *days = json_object_get(p, "days");
+        ck_assert_str_eq(json_string_value(json_object_get(p, "transfer_type")), "II");
+        ck_assert_uint_ge(json_array_size(days), 1);
+        for (size_t d = 0; d < json_array_size(days); d++)
+            ck_assert_str_eq(json_string_value(json_object_get(json_array_get(days, d), "type")), "II");
+    }
+    json_decref(root);
+    tu_run_free(&r);
+
     /* --arrival fixed --length 10 --quiet: nothing printed, files written */
     snprintf(args, sizeof args, "period examples/tern-mars-2033.ini -o %s/q --arrival fixed --length 10 --quiet", dir);
     r = tu_run_synodic(args);
@@ -480,6 +627,9 @@ START_TEST(test_cli_errors)
         {"period examples/tern-mars-2033.ini -o %s --set departure.step_days=2", "step_days = 1", 3},
         {"period examples/tern-mars-2033.ini -o %s --set limits.dla_max_deg=0.01", "no 20 consecutive", 4},
         {"period examples/tern-mars-2033.ini -o %s --bogus", "unknown option", 2},
+        {"period examples/tern-mars-2033.ini -o %s --type III", "I, II or either", 3},
+        {"period examples/tern-mars-2033.ini -o %s --set period.type=3", "type = II", 3},
+        {"period examples/tern-mars-2033.ini -o %s --type I --set limits.c3_max_km2_s2=8.2", "Type I transfer", 4},
     };
     for (size_t k = 0; k < sizeof cases / sizeof cases[0]; k++) {
         snprintf(args, sizeof args, cases[k].fmt, dir, dir);
@@ -506,6 +656,8 @@ int main(void)
     tcase_add_test(tc, test_minimax_bruteforce_and_ordering);
     tcase_add_test(tc, test_minimax_respects_other_limits);
     tcase_add_test(tc, test_longest_closed_form);
+    tcase_add_test(tc, test_minimax_one_type_closed_form);
+    tcase_add_test(tc, test_one_type_bruteforce);
     tcase_add_test(tc, test_capability_margin);
     tcase_add_test(tc, test_bad_inputs);
     suite_add_tcase(s, tc);

@@ -17,6 +17,7 @@
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
+#include <strings.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
@@ -25,7 +26,7 @@ void usage_period(FILE *out)
     fprintf(out,
             "usage: synodic period STUDY [-o DIR] [--set SECTION.KEY=VALUE ...]\n"
             "                      [--length DAYS] [--arrival fixed|free|both]\n"
-            "                      [--threads N] [--quiet]\n\n"
+            "                      [--type I|II|either] [--threads N] [--quiet]\n\n"
             "Launch-period design on the study's porkchop grid (departure step 1 day):\n"
             "with a required length (--length or [period] length_days), the period and\n"
             "arrival choice that minimise the largest C3 over it; with a C3 limit\n"
@@ -37,6 +38,9 @@ void usage_period(FILE *out)
             "  --set S.K=V        override key K of section [S] (repeatable)\n"
             "  --length DAYS      required launch period, whole days (overrides [period])\n"
             "  --arrival WHICH    fixed, free or both (overrides [period] arrival)\n"
+            "  --type T           I or II: every day of the period on that transfer type;\n"
+            "                     either (default): the better one day by day\n"
+            "                     (overrides [period] type)\n"
             "  --threads N        worker threads (default: all cores)\n"
             "  --quiet            print nothing but errors\n"
             "  --help             show this help\n\n"
@@ -168,6 +172,7 @@ static sy_status write_json(const job *jobs, size_t n, const sy_study *st, const
         json_t *o = json_object();
         json_object_set_new(o, "question", json_string(p->minimax ? "minimax" : "longest"));
         json_object_set_new(o, "arrival_strategy", json_string(strategy_name(p->arrival)));
+        json_object_set_new(o, "transfer_type", json_string(st->period_type == 1 ? "I" : st->period_type == 2 ? "II" : "either"));
         json_object_set_new(o, "length_days", json_integer((json_int_t)p->ndays));
         json_object_set_new(o, "first_departure_tdb", jdate(p->days[0].jd_dep));
         json_object_set_new(o, "last_departure_tdb", jdate(p->days[p->ndays - 1].jd_dep));
@@ -207,6 +212,7 @@ int cmd_period(int argc, char **argv)
         {"set", required_argument, NULL, 's'},
         {"length", required_argument, NULL, 'L'},
         {"arrival", required_argument, NULL, 'a'},
+        {"type", required_argument, NULL, 'T'},
         {"threads", required_argument, NULL, 't'},
         {"quiet", no_argument, NULL, 'q'},
         {"help", no_argument, NULL, 'h'},
@@ -216,6 +222,7 @@ int cmd_period(int argc, char **argv)
     size_t nsets = 0;
     int threads = 0, quiet = 0, c, rc = 0, length = 0;
     unsigned arrival = 0;
+    int type = -1;
     if (!sets) return cli_error(CLI_EXIT_INTERNAL, "out of memory");
     opterr = 0;
     while ((c = getopt_long(argc, argv, ":o:", longopts, NULL)) != -1) {
@@ -228,6 +235,12 @@ int cmd_period(int argc, char **argv)
             else if (!strcmp(optarg, "free")) arrival = SY_PERIOD_ARR_FREE;
             else if (!strcmp(optarg, "both")) arrival = SY_PERIOD_ARR_FIXED | SY_PERIOD_ARR_FREE;
             else rc = cli_error(CLI_EXIT_INPUT, "--arrival: '%s' is not a strategy; use fixed, free or both", optarg);
+            break;
+        case 'T':
+            if (!strcasecmp(optarg, "I")) type = 1;
+            else if (!strcasecmp(optarg, "II")) type = 2;
+            else if (!strcasecmp(optarg, "either")) type = 0;
+            else rc = cli_error(CLI_EXIT_INPUT, "--type: '%s' is not a transfer type; use I, II or either", optarg);
             break;
         case 't': rc = cli_parse_int("--threads", optarg, 1, 1024, &threads); break;
         case 'q': quiet = 1; break;
@@ -248,6 +261,8 @@ int cmd_period(int argc, char **argv)
     sy_status s;
     if (length) st->period_length_days = length;
     if (arrival) st->period_arrival = arrival;
+    if (type >= 0) st->period_type = type;
+    const char *only = st->period_type == 1 ? ", Type I only" : st->period_type == 2 ? ", Type II only" : "";
 
     sy_catalog *cat = NULL;
     sy_grid *g = NULL;
@@ -316,9 +331,11 @@ int cmd_period(int argc, char **argv)
             }
             njobs++;
             if (question == 1 && jb->p.ndays == 0) {
-                rc = cli_error(CLI_EXIT_NOSOL, "%s: no departure day has a transfer%s within the study's limits; "
-                               "relax [limits] or move the windows", st->path,
-                               arr == SY_PERIOD_FIXED ? " to any single arrival date" : "");
+                rc = cli_error(CLI_EXIT_NOSOL, "%s: no departure day has a %stransfer%s within the study's limits; "
+                               "relax [limits]%s or move the windows", st->path,
+                               st->period_type == 1 ? "Type I " : st->period_type == 2 ? "Type II " : "",
+                               arr == SY_PERIOD_FIXED ? " to any single arrival date" : "",
+                               st->period_type ? ", allow either type (--type either)" : "");
                 goto out;
             }
             if (cap && (s = sy_period_apply_capability(&jb->p, cap, st->spacecraft_mass_kg, &err)) != SY_OK) {
@@ -326,11 +343,11 @@ int cmd_period(int argc, char **argv)
                 goto out;
             }
             if (question == 0)
-                snprintf(jb->title, sizeof jb->title, "Minimax %zu-day launch period, %s arrival",
-                         jb->p.ndays, arr == SY_PERIOD_FIXED ? "fixed" : "free");
+                snprintf(jb->title, sizeof jb->title, "Minimax %zu-day launch period, %s arrival%s",
+                         jb->p.ndays, arr == SY_PERIOD_FIXED ? "fixed" : "free", only);
             else
-                snprintf(jb->title, sizeof jb->title, "Longest launch period with C3 <= %g km2/s2 (all limits), %s arrival: %zu days",
-                         st->c3_max_km2_s2, arr == SY_PERIOD_FIXED ? "fixed" : "free", jb->p.ndays);
+                snprintf(jb->title, sizeof jb->title, "Longest launch period with C3 <= %g km2/s2 (all limits), %s arrival%s: %zu days",
+                         st->c3_max_km2_s2, arr == SY_PERIOD_FIXED ? "fixed" : "free", only, jb->p.ndays);
         }
     }
 
@@ -373,11 +390,11 @@ int cmd_period(int argc, char **argv)
      * launch-period question. */
     char sub[sizeof st->subtitle + 128];
     if (want_len)
-        snprintf(sub, sizeof sub, "%s%s%.0f-day launch periods, minimax C3", st->subtitle,
-                 st->subtitle[0] ? " · " : "", st->period_length_days);
+        snprintf(sub, sizeof sub, "%s%s%.0f-day launch periods, minimax C3%s", st->subtitle,
+                 st->subtitle[0] ? " · " : "", st->period_length_days, only);
     else
-        snprintf(sub, sizeof sub, "%s%sLongest launch periods with C3 ≤ %g km²/s²", st->subtitle,
-                 st->subtitle[0] ? " · " : "", st->c3_max_km2_s2);
+        snprintf(sub, sizeof sub, "%s%sLongest launch periods with C3 ≤ %g km²/s²%s", st->subtitle,
+                 st->subtitle[0] ? " · " : "", st->c3_max_km2_s2, only);
     size_t nsub = strlen(sub);
     if (nsub >= sizeof st->subtitle) {
         nsub = sizeof st->subtitle - 1;

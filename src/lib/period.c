@@ -63,10 +63,12 @@ void sy_period_free(sy_period *p)
     p->ndays = 0;
 }
 
-/* A cell meets every limit of the study (the C3 limit only when use_c3). */
+/* A cell meets every limit of the study (the C3 limit only when use_c3)
+ * and is of the period's transfer type when the study names one. */
 static int cell_ok(const sy_grid *g, const sy_study *st, size_t k, int use_c3)
 {
     if (g->status[k] != SY_CELL_OK) return 0;
+    if (st->period_type && g->type[k] != st->period_type) return 0;
     float *const *F = g->field;
     if (!isfinite(F[SY_F_C3][k])) return 0;
     if (use_c3 && isfinite(st->c3_max_km2_s2) && !(F[SY_F_C3][k] <= st->c3_max_km2_s2)) return 0;
@@ -280,9 +282,11 @@ sy_status sy_period_minimax(const sy_grid *g, const sy_study *st,
     }
     if (!isfinite(best)) {
         s = sy_fail(err, SY_ERR_NOSOL, "no %zu consecutive departure days have a "
-                    "transfer%s within the study's limits (arrival v-infinity, |DLA|, "
-                    "flight time); relax a limit or shorten the period", L,
-                    arrival == SY_PERIOD_FIXED ? " to one common arrival date" : "");
+                    "%stransfer%s within the study's limits (arrival v-infinity, |DLA|, "
+                    "flight time); relax a limit%s or shorten the period", L,
+                    st->period_type == 1 ? "Type I " : st->period_type == 2 ? "Type II " : "",
+                    arrival == SY_PERIOD_FIXED ? " to one common arrival date" : "",
+                    st->period_type ? ", allow either type ([period] type = either)" : "");
         goto done;
     }
     if (arrival == SY_PERIOD_FIXED)

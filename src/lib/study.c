@@ -87,6 +87,9 @@
  *     length_days  required launch period in days, whole number >= 1
  *     arrival      fixed | free | both (default both): one arrival date
  *                 for the whole period, a free arrival per day, or both
+ *     type         I | II | either (default either): fly every day of
+ *                 the period on that transfer type (one spacecraft and
+ *                 cruise design), or take the better type day by day
  *
  *   [launch_vehicle]
  *     capability  CSV of injected mass against C3 (format in
@@ -234,7 +237,7 @@ static const char *const keys_output[] = {"formats", "directory", "name",
                                           "width_in", "height_in", "width_px",
                                           "height_px", "dpi", NULL};
 
-static const char *const keys_period[] = {"length_days", "arrival", NULL};
+static const char *const keys_period[] = {"length_days", "arrival", "type", NULL};
 static const char *const keys_lv[] = {"capability", "spacecraft_mass_kg",
                                       NULL};
 
@@ -1135,6 +1138,18 @@ static int do_period(ctx *c, sy_study *st)
         else if (strcasecmp(e->value, "both")) {
             fail_key(c, e, "'%.40s' is not fixed, free or both; write e.g. "
                      "arrival = fixed", e->value);
+            return 0;
+        }
+    }
+    st->period_type = 0;
+    if ((e = find_entry(c, S_PERIOD, "type"))) {
+        if (!strcasecmp(e->value, "I"))
+            st->period_type = 1;
+        else if (!strcasecmp(e->value, "II"))
+            st->period_type = 2;
+        else if (strcasecmp(e->value, "either")) {
+            fail_key(c, e, "'%.40s' is not I, II or either; write e.g. type = II "
+                     "(every day of the period a Type II transfer)", e->value);
             return 0;
         }
     }

@@ -14,6 +14,10 @@
  *     the launch vehicle must deliver), under the study's other limits
  *     (arrival v-infinity, |DLA|, flight time; the C3 limit is only
  *     compared with the answer).
+ * With the study's [period] type = I or II (sy_study.period_type) every
+ * day of a period is of that transfer type, for both questions and both
+ * strategies: one cruise and arrival design for the whole period.  By
+ * default either type may fly on any day (a period may then mix them).
  * Everything is exact on the grid nodes: the departure axis must step 1
  * day (launch periods are daily) and nothing is refined off the grid.  The
  * fixed-arrival strategy needs an arrival-date y axis ([arrival]).

@@ -113,6 +113,8 @@ typedef struct {
     /* [period] */
     double period_length_days; /* required launch period; NAN if absent */
     unsigned period_arrival;   /* SY_PERIOD_ARR_* bits; default both      */
+    int period_type;           /* 1 or 2: every day of that transfer type;
+                                * 0 (default): either, day by day         */
 
     /* [launch_vehicle] */
     char lv_capability[4096]; /* CSV, resolved against dir; "" if none  */
