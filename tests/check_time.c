@@ -89,6 +89,20 @@ START_TEST(test_round_trip_format)
 }
 END_TEST
 
+/* The accepted forms of seconds (ISO 8601 style SS and SS.fff). */
+START_TEST(test_seconds_forms)
+{
+    double a, b;
+    ck_assert_int_eq(sy_date_parse("2033-04-10T12:00:05", &a, NULL), SY_OK);
+    ck_assert_int_eq(sy_date_parse("2033-04-10T12:00:05.250", &b, NULL), SY_OK);
+    ck_assert_double_eq_tol((b - a) * 86400.0, 0.25, 1e-4);
+    ck_assert_int_eq(sy_date_parse("2033-04-10T12:00", &b, NULL), SY_OK);
+    ck_assert_double_eq_tol((a - b) * 86400.0, 5.0, 1e-4);
+    ck_assert_int_eq(sy_date_parse("JD2463697.75", &a, NULL), SY_OK);
+    ck_assert_double_eq(a, 2463697.75);
+}
+END_TEST
+
 /* Impossible dates name the offending field. */
 START_TEST(test_bad_dates)
 {
@@ -99,6 +113,11 @@ START_TEST(test_bad_dates)
         {"2033-04-10T12:00:61", "second 61"}, {"2033/04/10", "year"},
         {"tomorrow", "year"}, {"JDx", "Julian date"}, {"JD", "Julian date"},
         {"", "empty"}, {"2033-04-10junk", "unexpected"},
+        /* seconds are SS or SS.fff (ISO 8601 style), nothing strtod
+         * would also read; a Julian date is decimal */
+        {"2033-04-10T12:00:0x1p3", "seconds"}, {"2033-04-10T12:00:1e1", "seconds"},
+        {"2033-04-10T12:00:5", "seconds"}, {"2033-04-10T12:00:05.", "seconds"},
+        {"2033-04-10T12:00:+5", "seconds"}, {"JD0x1p21", "Julian date"},
     };
     for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++) {
         sy_error err = {{0}};
@@ -143,6 +162,7 @@ int main(void)
     tcase_add_test(tc, test_known_epochs);
     tcase_add_test(tc, test_round_trip_format);
     tcase_add_test(tc, test_bad_dates);
+    tcase_add_test(tc, test_seconds_forms);
     tcase_add_test(tc, test_frames_vs_erfa);
     suite_add_tcase(s, tc);
     return tu_run(s);

@@ -141,7 +141,7 @@ static void show_text(const char *in, char *out, size_t len)
     out[o] = '\0';
 }
 
-#define DATE_FORMS "use YYYY-MM-DD, YYYY-MM-DDTHH:MM[:SS] or JD2461234.5"
+#define DATE_FORMS "use YYYY-MM-DD, YYYY-MM-DDTHH:MM[:SS[.fff]] or JD2461234.5"
 
 sy_status sy_date_parse(const char *text, double *jd_tdb, sy_error *err)
 {
@@ -159,7 +159,8 @@ sy_status sy_date_parse(const char *text, double *jd_tdb, sy_error *err)
         errno = 0;
         double jd = strtod(num, &end);
         while (isspace((unsigned char)*end)) end++;
-        if (end == num || *end || errno == ERANGE || !isfinite(jd))
+        /* decimal only: strtod also reads hex forms (JD0x1p21) */
+        if (end == num || *end || errno == ERANGE || !isfinite(jd) || strpbrk(num, "xX"))
             return sy_fail(err, SY_ERR_PARSE,
                            "invalid Julian date '%s'; " DATE_FORMS, shown);
         if (jd < 0 || jd > 1e8)
@@ -192,12 +193,23 @@ sy_status sy_date_parse(const char *text, double *jd_tdb, sy_error *err)
         if (!p)
             return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': minutes must be 2 digits; " DATE_FORMS, shown);
         if (*p == ':') {
-            const char *q = p + 1;
-            if (!isdigit((unsigned char)*q))
-                return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': seconds must be digits", shown);
-            char *end;
-            ss = strtod(q, &end);
-            p = end;
+            /* SS or SS.fff: two digits, an optional fraction of digits;
+             * strtod alone would also take exponents and hex forms */
+            const char *q = p + 1, *e = q;
+            while (isdigit((unsigned char)*e)) e++;
+            if (e - q != 2)
+                return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': seconds must be 2 digits (SS or SS.fff)", shown);
+            if (*e == '.') {
+                const char *f = ++e;
+                while (isdigit((unsigned char)*e)) e++;
+                if (e == f || e - q > 40)
+                    return sy_fail(err, SY_ERR_PARSE, "invalid time in '%s': seconds must be SS or SS.fff", shown);
+            }
+            char num[48];
+            memcpy(num, q, (size_t)(e - q));
+            num[e - q] = '\0';
+            ss = strtod(num, NULL);
+            p = e;
         }
         if (*p == 'Z' || *p == 'z') p++;
     }
