@@ -312,6 +312,12 @@ static const bad_case cases[] = {
      S_HEAD S_DEP "[arrival]\nstart = 2033-08-01\nend = 2034-06-30\n"
      "step_days = 400\n" S_OUT, CHART(NULL), 3,
      {"%F:13:", "step_days", "larger than the window"}},
+    /* 97 400 x 97 400 cells: hundreds of GB, refused before allocating */
+    {"a grid too large for this machine's memory", IN_STUDY, GEN_TEXT,
+     S_HEAD "[departure]\nstart = 2033-02-15\nend = 2041-02-15\n"
+     "step_days = 0.03\n[arrival]\nstart = 2033-08-01\nend = 2041-08-01\n"
+     "step_days = 0.03\n" S_OUT, CHART(NULL), 3,
+     {"%F", "97401 x 97401", "needs", "step_days"}},
     {"a window of 10 000 years", IN_STUDY, GEN_TEXT,
      S_HEAD "[departure]\nstart = 2033-02-15\nend = 12033-02-15\n"
      "step_days = 100\n" S_ARR S_OUT, CHART(NULL), 3,

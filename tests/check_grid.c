@@ -362,7 +362,7 @@ START_TEST(test_masks_and_memory)
 
     s = mars_spec(2000000, 2000000, 0);
     sy_error err;
-    ck_assert_int_eq(sy_grid_compute(&s, NULL, NULL, &g, &err), SY_ERR_NOMEM);
+    ck_assert_int_eq(sy_grid_compute(&s, NULL, NULL, &g, &err), SY_ERR_RANGE);
     ck_assert_ptr_null(g);
     ck_assert_ptr_nonnull(strstr(err.msg, "needs"));
     ck_assert_ptr_nonnull(strstr(err.msg, "step_days"));

@@ -122,7 +122,7 @@ int cmd_chart(int argc, char **argv)
     int last = -1;
     int show = !quiet && isatty(STDERR_FILENO) && spec.nx * spec.ny >= 200000;
     s = sy_grid_compute(&spec, show ? cli_progress_bar : NULL, &last, &g, &err);
-    if (s != SY_OK) { rc = cli_error(cli_exit_for(s), "%s", err.msg); goto out; }
+    if (s != SY_OK) { rc = cli_error(cli_exit_for(s), "%s: %s", st->path, err.msg); goto out; }
 
     /* Optima: minimum C3 of each transfer type (both are flown), then the
      * minimum arrival v-infinity and total delta-v of either type. */

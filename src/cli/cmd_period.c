@@ -308,7 +308,7 @@ int cmd_period(int argc, char **argv)
     if ((rc = cli_ensure_dir(st->out_dir))) goto out;
 
     if ((s = sy_grid_compute(&spec, NULL, NULL, &g, &err)) != SY_OK) {
-        rc = cli_error(cli_exit_for(s), "%s", err.msg);
+        rc = cli_error(cli_exit_for(s), "%s: %s", st->path, err.msg);
         goto out;
     }
 

@@ -361,7 +361,9 @@ sy_status sy_grid_compute(const sy_grid_spec *spec, sy_progress_fn progress,
         char nb[64], ab[64];
         fmt_bytes(need, nb, sizeof nb);
         fmt_bytes(avail, ab, sizeof ab);
-        return sy_fail(err, SY_ERR_NOMEM, "a grid of %zu x %zu cells needs %s but only %s of memory is available; use a larger step_days or narrower windows", spec->nx, spec->ny, nb, ab);
+        /* the study asks for more than the machine has: bad input (its
+         * steps and windows), not a failure of the program */
+        return sy_fail(err, SY_ERR_RANGE, "a grid of %zu x %zu cells needs %s but only %s of memory is available; use a larger step_days or narrower windows", spec->nx, spec->ny, nb, ab);
     }
     sy_grid *g = calloc(1, sizeof *g);
     if (!g) return sy_fail(err, SY_ERR_NOMEM, "out of memory");
