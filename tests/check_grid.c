@@ -183,20 +183,27 @@ START_TEST(test_thread_determinism)
 }
 END_TEST
 
+/* The Earth-Mars 2033 grid of 120 x 300 days and its refined minimum C3
+ * without limits. */
+static sy_grid *mars_c3_optimum(sy_grid_spec *s, sy_study *st, sy_optimum *o)
+{
+    *s = mars_spec(120, 300, 0);
+    sy_grid *g;
+    ck_assert_int_eq(sy_grid_compute(s, NULL, NULL, &g, NULL), SY_OK);
+    open_study(st);
+    ck_assert_int_eq(sy_grid_optimum(g, st, SY_F_C3, o), SY_OK);
+    ck_assert(o->found);
+    return g;
+}
+
 /* The refined minimum C3 agrees with a dense local grid of 0.01-day
  * spacing around it (an independent brute-force minimum). */
 START_TEST(test_optimum_vs_dense_grid)
 {
-    sy_grid_spec s = mars_spec(120, 300, 0);
-    s.dx_days = 1.0;
-    s.dy_days = 1.0;
-    sy_grid *g;
-    ck_assert_int_eq(sy_grid_compute(&s, NULL, NULL, &g, NULL), SY_OK);
+    sy_grid_spec s;
     sy_study st;
-    open_study(&st);
     sy_optimum o;
-    ck_assert_int_eq(sy_grid_optimum(g, &st, SY_F_C3, &o), SY_OK);
-    ck_assert(o.found);
+    sy_grid *g = mars_c3_optimum(&s, &st, &o);
     /* dense grid: +-0.6 day around the refined point, 0.01-day steps */
     double best = INFINITY, bd = 0, ba = 0;
     for (int a = -60; a <= 60; a++)
@@ -242,14 +249,10 @@ END_TEST
  * and cost more (a minimum over a subset is never lower). */
 START_TEST(test_optimum_at_edge)
 {
-    sy_grid_spec s = mars_spec(120, 300, 0);
-    sy_grid *g;
-    ck_assert_int_eq(sy_grid_compute(&s, NULL, NULL, &g, NULL), SY_OK);
+    sy_grid_spec s;
     sy_study st;
-    open_study(&st);
     sy_optimum o;
-    ck_assert_int_eq(sy_grid_optimum(g, &st, SY_F_C3, &o), SY_OK);
-    ck_assert(o.found);
+    sy_grid *g = mars_c3_optimum(&s, &st, &o);
     ck_assert_uint_eq(o.edges, 0);
     char txt[96];
     ck_assert_str_eq(sy_optimum_edge_text(&o, 0, txt, sizeof txt), "");

@@ -151,6 +151,37 @@ START_TEST(test_minimax_closed_form)
 }
 END_TEST
 
+/* Brute-force minimax of an L-day period over the cells that are solved
+ * and (ty 1 or 2) of that transfer type: the definitions of the free and
+ * fixed answers evaluated naively, INFINITY when no period exists. */
+static int cell_usable(const sy_grid *g, size_t k, int ty)
+{
+    return g->status[k] == SY_CELL_OK && (ty == 0 || g->type[k] == ty);
+}
+
+static void brute_minimax(const sy_grid *g, int ty, size_t L, double *bf_free, double *bf_fixed)
+{
+    const size_t nx = g->nx, ny = g->ny;
+    const float *C = g->field[SY_F_C3];
+    *bf_free = *bf_fixed = INFINITY;
+    for (size_t s = 0; s + L <= nx; s++) {
+        double wfree = -INFINITY;
+        for (size_t i = s; i < s + L; i++) {
+            double m = INFINITY;
+            for (size_t j = 0; j < ny; j++)
+                if (cell_usable(g, j * nx + i, ty)) m = fmin(m, C[j * nx + i]);
+            wfree = fmax(wfree, m);
+        }
+        *bf_free = fmin(*bf_free, wfree);
+        for (size_t j = 0; j < ny; j++) {
+            double w = -INFINITY;
+            for (size_t i = s; i < s + L; i++)
+                w = fmax(w, cell_usable(g, j * nx + i, ty) ? (double)C[j * nx + i] : INFINITY);
+            *bf_fixed = fmin(*bf_fixed, w);
+        }
+    }
+}
+
 /* Exhaustive enumeration (exact mathematics: the minimax over a finite
  * set, evaluated by brute force) on a pseudo-random field, and the
  * ordering free <= fixed for every length (m(i) <= C(i, j) for all j). */
@@ -162,28 +193,12 @@ START_TEST(test_minimax_bruteforce_and_ordering)
     /* some unsolved cells and a fully blocked column */
     for (size_t k = 0; k < nx * ny; k += 7) g->status[k] = SY_CELL_NOSOL;
     for (size_t j = 0; j < ny; j++) g->status[j * nx + 30] = SY_CELL_NOSOL;
-    const float *C = g->field[SY_F_C3];
     sy_study st;
     no_limits(&st);
     sy_error err;
     for (size_t L = 1; L <= 30; L++) {
-        double bf_fixed = INFINITY, bf_free = INFINITY;
-        for (size_t s = 0; s + L <= nx; s++) {
-            double wfree = -INFINITY;
-            for (size_t i = s; i < s + L; i++) {
-                double m = INFINITY;
-                for (size_t j = 0; j < ny; j++)
-                    if (g->status[j * nx + i] == SY_CELL_OK) m = fmin(m, C[j * nx + i]);
-                wfree = fmax(wfree, m);
-            }
-            bf_free = fmin(bf_free, wfree);
-            for (size_t j = 0; j < ny; j++) {
-                double w = -INFINITY;
-                for (size_t i = s; i < s + L; i++)
-                    w = fmax(w, g->status[j * nx + i] == SY_CELL_OK ? (double)C[j * nx + i] : INFINITY);
-                bf_fixed = fmin(bf_fixed, w);
-            }
-        }
+        double bf_fixed, bf_free;
+        brute_minimax(g, 0, L, &bf_free, &bf_fixed);
         sy_period fr, fx;
         sy_status a = sy_period_minimax(g, &st, SY_PERIOD_FREE, L, &fr, &err);
         sy_status b = sy_period_minimax(g, &st, SY_PERIOD_FIXED, L, &fx, &err);
@@ -307,7 +322,7 @@ START_TEST(test_one_type_bruteforce)
     sy_error err;
     for (int ty = 0; ty <= 2; ty++) {
         st.period_type = ty;
-#define OKC(k, lim) ((ty == 0 || g->type[k] == ty) && (double)C[k] <= (lim))
+#define OKC(k, lim) (cell_usable(g, k, ty) && (double)C[k] <= (lim))
         /* longest: free = longest run of days with any cell of the type
          * within the limit; fixed = longest run along one arrival */
         size_t lf = 0, lx = 0;
@@ -332,25 +347,10 @@ START_TEST(test_one_type_bruteforce)
         sy_period_free(&pf);
         sy_period_free(&px);
         /* minimax of every length */
-        for (size_t L = 1; L <= 12; L++) {
-            double bf_free = INFINITY, bf_fixed = INFINITY;
-            for (size_t s = 0; s + L <= nx; s++) {
-                double wfree = -INFINITY;
-                for (size_t i = s; i < s + L; i++) {
-                    double m = INFINITY;
-                    for (size_t j = 0; j < ny; j++)
-                        if (OKC(j * nx + i, INFINITY)) m = fmin(m, C[j * nx + i]);
-                    wfree = fmax(wfree, m);
-                }
-                bf_free = fmin(bf_free, wfree);
-                for (size_t j = 0; j < ny; j++) {
-                    double w = -INFINITY;
-                    for (size_t i = s; i < s + L; i++)
-                        w = fmax(w, OKC(j * nx + i, INFINITY) ? (double)C[j * nx + i] : INFINITY);
-                    bf_fixed = fmin(bf_fixed, w);
-                }
-            }
 #undef OKC
+        for (size_t L = 1; L <= 12; L++) {
+            double bf_free, bf_fixed;
+            brute_minimax(g, ty, L, &bf_free, &bf_fixed);
             sy_status a = sy_period_minimax(g, &st, SY_PERIOD_FREE, L, &pf, &err);
             sy_status b = sy_period_minimax(g, &st, SY_PERIOD_FIXED, L, &px, &err);
             ck_assert_int_eq(a, isfinite(bf_free) ? SY_OK : SY_ERR_NOSOL);
