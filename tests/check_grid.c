@@ -178,6 +178,27 @@ START_TEST(test_thread_determinism)
     unlink(p1);
     unlink(p2);
     rmdir(dir);
+    /* teams of 3 and 7 on 3 column blocks: ranges of one block, empty
+     * ranges, units taken from other threads' ranges; the same bits.
+     * Both kernels (the scalar one cuts its runs of cells the same way). */
+    const int teams[2] = {3, 7};
+    const int kernels[2] = {SY_KERNEL_AUTO, SY_KERNEL_SCALAR};
+    for (int q = 0; q < 2; q++)
+        for (int t = 0; t < 2; t++) {
+            sy_grid_spec sk = mars_spec(150, 150, teams[t]), s0 = mars_spec(150, 150, 1);
+            sk.kernel = s0.kernel = kernels[q];
+            sy_grid *gk, *g0;
+            ck_assert_int_eq(sy_grid_compute(&sk, NULL, NULL, &gk, NULL), SY_OK);
+            ck_assert_int_eq(sy_grid_compute(&s0, NULL, NULL, &g0, NULL), SY_OK);
+            for (int f = 0; f < SY_NFIELDS; f++)
+                if (g0->field[f])
+                    ck_assert_msg(memcmp(gk->field[f], g0->field[f], cells * sizeof(float)) == 0,
+                                  "kernel %d, %d threads: field %d differs", kernels[q], teams[t], f);
+            ck_assert_int_eq(memcmp(gk->status, g0->status, cells), 0);
+            ck_assert_int_eq(memcmp(gk->type, g0->type, cells), 0);
+            sy_grid_free(gk);
+            sy_grid_free(g0);
+        }
     sy_grid_free(g1);
     sy_grid_free(g2);
 }

@@ -257,6 +257,72 @@ static int use_vector_kernel(const sy_grid_spec *s)
 #define UNIT_TARGET 64
 #define UNIT_MIN_ROWS 16
 
+/* Who solves which unit.  The units form nbands x ncols (runs of rows x
+ * column blocks; the scalar sweep: 1 x its runs of cells).  Each thread
+ * owns a contiguous range of columns, all bands, and takes its units
+ * band by band, left to right, from the front; when its range is done
+ * it takes from the back of the range with the most left.  So a thread
+ * mostly writes neighbouring column blocks itself, one after the other:
+ * the cache lines where two blocks of a grid row meet (rows are not
+ * padded to whole lines) seldom pass between cores, which a shared
+ * dynamic schedule made them do at every block boundary (about 7 % of a
+ * two-thread sweep, measured).  Only who computes a unit changes, never
+ * the unit, so the fields do not depend on it. */
+typedef struct {
+    _Alignas(64) long long c0; /* one range a cache line; its columns are */
+    long long w;               /* c0 .. c0+w-1, every band                */
+    long long front, back;     /* positions front .. back-1 are left      */
+#ifdef _OPENMP
+    omp_lock_t lock;
+#endif
+} unit_seg;
+
+static long long seg_take(unit_seg *s, int back)
+{
+    long long u = -1;
+#ifdef _OPENMP
+    omp_set_lock(&s->lock);
+#endif
+    if (s->front < s->back) u = back ? --s->back : s->front++;
+#ifdef _OPENMP
+    omp_unset_lock(&s->lock);
+#endif
+    return u;
+}
+
+static long long seg_left(unit_seg *s)
+{
+    long long n;
+#ifdef _OPENMP
+    omp_set_lock(&s->lock);
+#endif
+    n = s->back - s->front;
+#ifdef _OPENMP
+    omp_unset_lock(&s->lock);
+#endif
+    return n;
+}
+
+/* The next unit (band * ncols + column) for thread me of nt, or -1
+ * when none is left. */
+static long long claim_unit(unit_seg *seg, int nt, int me, long long ncols)
+{
+    int from = me;
+    long long p = seg_take(&seg[me], 0);
+    while (p < 0) {
+        long long most = 0;
+        from = -1;
+        for (int t = 0; t < nt; t++) {
+            long long n = seg_left(&seg[t]);
+            if (n > most) { most = n; from = t; }
+        }
+        if (from < 0) return -1;
+        p = seg_take(&seg[from], 1);
+    }
+    const unit_seg *s = &seg[from];
+    return p / s->w * ncols + s->c0 + p % s->w;
+}
+
 static size_t unit_rows(size_t ny, size_t nblk)
 {
     size_t groups = (UNIT_TARGET + nblk - 1) / nblk;
@@ -471,16 +537,15 @@ static sy_status sweep(sy_grid *g, sy_progress_fn progress, void *user, sy_error
     }
     const sy_sweep sweep = {g->nx, spec->x0_jd, spec->dx_days, spec->y0, spec->dy_days,
                             spec->y_is_tof, la, lb, &dsoa, arr ? &asoa : NULL};
-    /* One parallel region per sweep over fixed work units (a block of
-     * column block in a run of rows for the vector kernel, a run of
-     * SCALAR_UNIT cells for the scalar one), dynamically scheduled.
+    /* One parallel region per sweep over fixed work units (a column
+     * block in a run of rows for the vector kernel, a run of SCALAR_UNIT
+     * cells for the scalar one), claimed as claim_unit says.
      * Unit boundaries do not depend on the thread count, so neither do
      * the fields.  Progress is counted in an atomic unit counter; only
      * the master thread calls the callback (about every 1/64 of the
      * sweep, and once with 1.0 after the region), so the callback never
      * runs concurrently with itself.  A cancel request sets a shared
      * flag and the remaining units are skipped. */
-    const size_t nunit_row = vec ? nblk : 0;
     const size_t urows = unit_rows(g->ny, nblk);
     const long long units = vec ? (long long)(((g->ny + urows - 1) / urows) * nblk)
                                 : (long long)((cells + SCALAR_UNIT - 1) / SCALAR_UNIT);
@@ -489,7 +554,13 @@ static sy_status sweep(sy_grid *g, sy_progress_fn progress, void *user, sy_error
     int cancelled = 0, nomem = 0;
     double extra = 0;
     long long nsolved = 0, nsweeps = 0;
+    unit_seg *seg = result == SY_OK ? aligned_alloc(64, (size_t)threads * sizeof *seg) : NULL;
+    if (result == SY_OK && !seg)
+        result = sy_fail(err, SY_ERR_NOMEM, "out of memory allocating the sweep buffers");
     if (result == SY_OK) {
+#ifdef _OPENMP
+        for (int t = 0; t < threads; t++) omp_init_lock(&seg[t].lock);
+#endif
 #pragma omp parallel num_threads(threads) reduction(+:extra, nsolved, nsweeps) reduction(|:nomem)
         {
             sy_block *b = NULL;
@@ -503,19 +574,26 @@ static sy_status sweep(sy_grid *g, sy_progress_fn progress, void *user, sy_error
                 }
             }
 #ifdef _OPENMP
-            const int master = omp_get_thread_num() == 0;
+            const int me = omp_get_thread_num(), nt = omp_get_num_threads();
 #else
-            const int master = 1;
+            const int me = 0, nt = 1;
 #endif
-#pragma omp for schedule(dynamic, 1)
-            for (long long u = 0; u < units; u++) {
+            const int master = me == 0;
+            /* the team may be smaller than asked: cut for its real size */
+            const long long ncols = vec ? (long long)nblk : units, nrows = units / ncols;
+            seg[me].c0 = ncols * me / nt;
+            seg[me].w = ncols * (me + 1) / nt - seg[me].c0;
+            seg[me].front = 0;
+            seg[me].back = seg[me].w * nrows;
+#pragma omp barrier
+            for (long long u; (u = claim_unit(seg, nt, me, ncols)) >= 0;) {
                 int stop;
 #pragma omp atomic read
                 stop = cancelled;
                 if (stop || (vec && !b)) continue;
                 if (vec) {
-                    size_t j0 = (size_t)u / nunit_row * urows;
-                    size_t i0 = ((size_t)u % nunit_row) * SY_BATCH_W;
+                    size_t j0 = (size_t)u / nblk * urows;
+                    size_t i0 = (size_t)u % nblk * SY_BATCH_W;
                     size_t j1 = j0 + urows < g->ny ? j0 + urows : g->ny;
                     for (size_t j = j0; j < j1; j++) {
                         int any = sy_block_gather(&sweep, j, i0, b);
@@ -551,7 +629,11 @@ static sy_status sweep(sy_grid *g, sy_progress_fn progress, void *user, sy_error
             }
             free(b);
         }
+#ifdef _OPENMP
+        for (int t = 0; t < threads; t++) omp_destroy_lock(&seg[t].lock);
+#endif
     }
+    free(seg);
     ephem_cells += extra;
     g->mean_sweeps = nsolved ? (double)nsweeps / (double)nsolved : 0.0;
     if (result == SY_OK && nomem)
