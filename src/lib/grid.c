@@ -277,17 +277,18 @@ typedef struct {
 #endif
 } unit_seg;
 
+/* A position of range s from its front (or back), -1 when it is empty. */
 static long long seg_take(unit_seg *s, int back)
 {
-    long long u = -1;
+    long long p = -1;
 #ifdef _OPENMP
     omp_set_lock(&s->lock);
 #endif
-    if (s->front < s->back) u = back ? --s->back : s->front++;
+    if (s->front < s->back) p = back ? --s->back : s->front++;
 #ifdef _OPENMP
     omp_unset_lock(&s->lock);
 #endif
-    return u;
+    return p;
 }
 
 static long long seg_left(unit_seg *s)
