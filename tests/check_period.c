@@ -182,6 +182,32 @@ static void brute_minimax(const sy_grid *g, int ty, size_t L, double *bf_free, d
     }
 }
 
+/* Brute-force longest periods with C3 <= lim over the same cells: free,
+ * the longest run of days with some usable cell within the limit; fixed,
+ * the longest such run along one arrival node. */
+static void brute_longest(const sy_grid *g, int ty, double lim, size_t *lfree, size_t *lfixed)
+{
+    const size_t nx = g->nx, ny = g->ny;
+    const float *C = g->field[SY_F_C3];
+    size_t run = 0;
+    *lfree = *lfixed = 0;
+    for (size_t i = 0; i < nx; i++) {
+        int any = 0;
+        for (size_t j = 0; j < ny; j++)
+            any |= cell_usable(g, j * nx + i, ty) && (double)C[j * nx + i] <= lim;
+        run = any ? run + 1 : 0;
+        if (run > *lfree) *lfree = run;
+    }
+    for (size_t j = 0; j < ny; j++) {
+        run = 0;
+        for (size_t i = 0; i < nx; i++) {
+            size_t k = j * nx + i;
+            run = cell_usable(g, k, ty) && (double)C[k] <= lim ? run + 1 : 0;
+            if (run > *lfixed) *lfixed = run;
+        }
+    }
+}
+
 /* Exhaustive enumeration (exact mathematics: the minimax over a finite
  * set, evaluated by brute force) on a pseudo-random field, and the
  * ordering free <= fixed for every length (m(i) <= C(i, j) for all j). */
@@ -315,28 +341,14 @@ START_TEST(test_one_type_bruteforce)
         lcg_state = lcg_state * 1664525u + 1013904223u;
         g->type[k] = (lcg_state >> 20) % 3 ? 2 : 1;   /* about 2/3 Type II */
     }
-    const float *C = g->field[SY_F_C3];
     sy_study st;
     no_limits(&st);
     st.c3_max_km2_s2 = 22.0;
     sy_error err;
     for (int ty = 0; ty <= 2; ty++) {
         st.period_type = ty;
-#define OKC(k, lim) (cell_usable(g, k, ty) && (double)C[k] <= (lim))
-        /* longest: free = longest run of days with any cell of the type
-         * within the limit; fixed = longest run along one arrival */
-        size_t lf = 0, lx = 0;
-        for (size_t j = 0; j <= ny; j++) {
-            size_t run = 0;
-            for (size_t i = 0; i < nx; i++) {
-                int ok = 0;
-                if (j == ny) { for (size_t q = 0; q < ny; q++) ok |= OKC(q * nx + i, 22.0); }
-                else ok = OKC(j * nx + i, 22.0);
-                run = ok ? run + 1 : 0;
-                if (j == ny && run > lf) lf = run;
-                if (j < ny && run > lx) lx = run;
-            }
-        }
+        size_t lf, lx;
+        brute_longest(g, ty, st.c3_max_km2_s2, &lf, &lx);
         sy_period pf, px;
         ck_assert_int_eq(sy_period_longest(g, &st, SY_PERIOD_FREE, &pf, &err), SY_OK);
         ck_assert_int_eq(sy_period_longest(g, &st, SY_PERIOD_FIXED, &px, &err), SY_OK);
@@ -347,7 +359,6 @@ START_TEST(test_one_type_bruteforce)
         sy_period_free(&pf);
         sy_period_free(&px);
         /* minimax of every length */
-#undef OKC
         for (size_t L = 1; L <= 12; L++) {
             double bf_free, bf_fixed;
             brute_minimax(g, ty, L, &bf_free, &bf_fixed);

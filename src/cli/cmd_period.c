@@ -17,7 +17,6 @@
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
-#include <strings.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
@@ -237,10 +236,8 @@ int cmd_period(int argc, char **argv)
             else rc = cli_error(CLI_EXIT_INPUT, "--arrival: '%s' is not a strategy; use fixed, free or both", optarg);
             break;
         case 'T':
-            if (!strcasecmp(optarg, "I")) type = 1;
-            else if (!strcasecmp(optarg, "II")) type = 2;
-            else if (!strcasecmp(optarg, "either")) type = 0;
-            else rc = cli_error(CLI_EXIT_INPUT, "--type: '%s' is not a transfer type; use I, II or either", optarg);
+            if ((type = sy_type_from_name(optarg)) < 0)
+                rc = cli_error(CLI_EXIT_INPUT, "--type: '%s' is not a transfer type; use I, II or either", optarg);
             break;
         case 't': rc = cli_parse_int("--threads", optarg, 1, 1024, &threads); break;
         case 'q': quiet = 1; break;

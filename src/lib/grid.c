@@ -277,30 +277,38 @@ typedef struct {
 #endif
 } unit_seg;
 
+static void seg_lock(unit_seg *s)
+{
+#ifdef _OPENMP
+    omp_set_lock(&s->lock);
+#else
+    (void)s;
+#endif
+}
+
+static void seg_unlock(unit_seg *s)
+{
+#ifdef _OPENMP
+    omp_unset_lock(&s->lock);
+#else
+    (void)s;
+#endif
+}
+
 /* A position of range s from its front (or back), -1 when it is empty. */
 static long long seg_take(unit_seg *s, int back)
 {
-    long long p = -1;
-#ifdef _OPENMP
-    omp_set_lock(&s->lock);
-#endif
-    if (s->front < s->back) p = back ? --s->back : s->front++;
-#ifdef _OPENMP
-    omp_unset_lock(&s->lock);
-#endif
+    seg_lock(s);
+    long long p = s->front < s->back ? (back ? --s->back : s->front++) : -1;
+    seg_unlock(s);
     return p;
 }
 
 static long long seg_left(unit_seg *s)
 {
-    long long n;
-#ifdef _OPENMP
-    omp_set_lock(&s->lock);
-#endif
-    n = s->back - s->front;
-#ifdef _OPENMP
-    omp_unset_lock(&s->lock);
-#endif
+    seg_lock(s);
+    long long n = s->back - s->front;
+    seg_unlock(s);
     return n;
 }
 

@@ -203,6 +203,15 @@ int sy_field_from_name(const char *name)
     return -1;
 }
 
+int sy_type_from_name(const char *name)
+{
+    static const char *const names[3] = {"either", "I", "II"};
+    for (int t = 0; name && t < 3; t++)
+        if (strcasecmp(name, names[t]) == 0)
+            return t;
+    return -1;
+}
+
 /* ------------------------------------------------------------------ */
 /* Sections and keys                                                   */
 
@@ -1143,11 +1152,8 @@ static int do_period(ctx *c, sy_study *st)
     }
     st->period_type = 0;
     if ((e = find_entry(c, S_PERIOD, "type"))) {
-        if (!strcasecmp(e->value, "I"))
-            st->period_type = 1;
-        else if (!strcasecmp(e->value, "II"))
-            st->period_type = 2;
-        else if (strcasecmp(e->value, "either")) {
+        st->period_type = sy_type_from_name(e->value);
+        if (st->period_type < 0) {
             fail_key(c, e, "'%.40s' is not I, II or either; write e.g. type = II "
                      "(every day of the period a Type II transfer)", e->value);
             return 0;

@@ -47,6 +47,9 @@ const char *sy_field_key(sy_field f);
 const char *sy_field_label(sy_field f);
 /* -1 when unknown. */
 int sy_field_from_name(const char *name);
+/* A transfer-type restriction as written in a study or on the command
+ * line: "I" 1, "II" 2, "either" 0 (any case); -1 otherwise. */
+int sy_type_from_name(const char *name);
 
 #define SY_MAX_LEVELS 64
 #define SY_MAX_CHART_FIELDS 6
